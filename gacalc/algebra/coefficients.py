@@ -1,0 +1,449 @@
+"""The coefficient domain: exact rational functions over QQ in a growing set of generators.
+
+Everything a multivector coefficient can be is written over *generators*: real scalar
+symbols, and opaque atoms for what is not polynomial in them (cos(u), sin(u), sqrt(p),
+exp(x), atan2(y, x), pi, ...).  A coefficient is num/den with num, den python-flint
+``fmpq_mpoly`` polynomials in those generators, cancelled to lowest terms.  The geometric
+product then costs a few sparse polynomial multiplications in C instead of expanding
+sympy trees; sympy ``Expr`` is produced only at the edges (``to_expr``), and the ASCII text
+of a coefficient is printed straight from the polynomial.
+
+Callers outside gacalc.algebra and gacalc.simplify never see this module's types: they
+pass and receive sympy objects.  Relations between generators (cos^2 + sin^2 = 1,
+sqrt(p)^2 = p) are *not* applied here; that is the simplifier's job (gacalc.simplify).
+
+Floating-point coefficients (only produced on request, by evalf) are kept as sympy Expr
+in an "expr" mode, the honest fallback for what the polynomial domain cannot hold.
+"""
+
+from __future__ import annotations
+
+from fractions import Fraction
+
+import flint
+import sympy
+from sympy.printing.str import StrPrinter
+
+_ORDER = "deglex"  # higher degree first, then generators in order of first use
+
+
+class DomainError(ValueError):
+    """A sympy object that cannot be a real multivector coefficient."""
+
+
+# ---------------------------------------------------------------------------
+# Generators
+
+
+class GeneratorInfo:
+    """What a generator stands for; the simplifier reads ``kind`` and the fields."""
+
+    __slots__ = ("expr", "name", "kind", "trig", "root")
+
+    def __init__(self, expr, name, kind, trig=None, root=None):
+        self.expr = expr  # the sympy Expr the generator stands for
+        self.name = name  # ASCII text, valid gacalc input; also the flint variable name
+        self.kind = kind  # 'symbol', 'cos', 'sin', 'root', 'other'
+        self.trig = trig  # (q, u) for cos(q u) / sin(q u): q > 0 rational, u the base
+        self.root = root  # (base Coef, n) for base^(1/n)
+
+
+class _Registry:
+    """The generators seen so far, in order of first appearance, and their flint context."""
+
+    def __init__(self):
+        self.infos: list[GeneratorInfo] = []
+        self.by_expr: dict = {}
+        self.names: set[str] = set()
+        self.ctx = flint.fmpq_mpoly_ctx.get(("_one",), _ORDER)
+
+    def generator(self, expr, kind="other", trig=None, root=None):
+        """The flint polynomial of the generator for ``expr``, registering it if new."""
+        idx = self.by_expr.get(expr)
+        if idx is None:
+            name = ascii_text(expr)
+            if name in self.names or not name.isascii():
+                name = f"_g{len(self.infos)}_{abs(hash(name)) % 10**6}"
+            idx = len(self.infos)
+            self.infos.append(GeneratorInfo(expr, name, kind, trig, root))
+            self.by_expr[expr] = idx
+            self.names.add(name)
+            # '_one' keeps the context non-empty before the first generator arrives
+            self.ctx = flint.fmpq_mpoly_ctx.get(("_one",) + tuple(i.name for i in self.infos), _ORDER)
+        return self.ctx.gens()[idx + 1]
+
+    def info(self, position: int) -> GeneratorInfo:
+        """Info of the generator at a flint variable position (position 0 is '_one')."""
+        return self.infos[position - 1]
+
+    def lift(self, p):
+        if p.context() is self.ctx:
+            return p
+        return p.project_to_context(self.ctx)
+
+
+REGISTRY = _Registry()
+
+
+def generators_of(coef: "Coef") -> list[GeneratorInfo]:
+    """The generators a coefficient actually uses."""
+    if coef.expr is not None:
+        return []
+    used = set()
+    for p in (coef.num, coef.den):
+        if p is None:
+            continue
+        p = REGISTRY.lift(p)
+        for pos, d in enumerate(p.degrees()):
+            if d > 0:
+                used.add(pos)
+    return [REGISTRY.info(pos) for pos in sorted(used)]
+
+
+# ---------------------------------------------------------------------------
+# Coefficients
+
+
+def _fmpq_to_rational(c) -> sympy.Rational:
+    return sympy.Rational(int(c.p), int(c.q))
+
+
+class Coef:
+    """An exact coefficient: num/den over the generators, or a sympy Expr (floats only)."""
+
+    __slots__ = ("num", "den", "expr")
+
+    def __init__(self, num=None, den=None, expr=None):
+        self.num = num  # fmpq_mpoly, or None in expr mode
+        self.den = den  # fmpq_mpoly with leading coefficient 1, or None for a polynomial
+        self.expr = expr  # sympy Expr in expr mode
+
+    # -- construction --------------------------------------------------------
+
+    @staticmethod
+    def constant(value) -> "Coef":
+        if isinstance(value, sympy.Rational):
+            value = flint.fmpq(int(value.p), int(value.q))
+        elif isinstance(value, Fraction):
+            value = flint.fmpq(value.numerator, value.denominator)
+        return Coef(REGISTRY.ctx.constant(value))
+
+    @staticmethod
+    def _ratio(num, den) -> "Coef":
+        """num/den in lowest terms with a monic denominator; ZeroDivisionError on den = 0."""
+        if den.is_zero():
+            raise ZeroDivisionError("division by zero")
+        if den.is_constant():
+            return Coef(num / den.leading_coefficient())
+        if num.is_zero():
+            return Coef(num)
+        g = num.gcd(den)
+        if not g.is_one():
+            num, den = num / g, den / g
+        lc = den.leading_coefficient()
+        if lc != 1:
+            num, den = num / lc, den / lc
+        if den.is_one():
+            return Coef(num)
+        return Coef(num, den)
+
+    def _parts(self):
+        lift = REGISTRY.lift
+        return lift(self.num), (lift(self.den) if self.den is not None else None)
+
+    # -- queries -------------------------------------------------------------
+
+    def is_zero(self) -> bool:
+        if self.expr is not None:
+            return self.expr == 0
+        return self.num.is_zero()
+
+    def is_constant(self) -> bool:
+        if self.expr is not None:
+            return self.expr.is_number
+        return self.den is None and self.num.is_constant()
+
+    def constant_value(self):
+        """The rational value of a constant coefficient (a flint fmpq)."""
+        return self.num.leading_coefficient() if not self.num.is_zero() else flint.fmpq(0)
+
+    def is_polynomial(self) -> bool:
+        return self.expr is None and self.den is None
+
+    # -- arithmetic ----------------------------------------------------------
+
+    def __add__(self, other: "Coef") -> "Coef":
+        if self.expr is not None or other.expr is not None:
+            return Coef.from_expr_mode(self.to_expr() + other.to_expr())
+        n1, d1 = self._parts()
+        n2, d2 = other._parts()
+        if d1 is None and d2 is None:
+            return Coef(n1 + n2)
+        if d1 is None:
+            return Coef._ratio(n1 * d2 + n2, d2)
+        if d2 is None:
+            return Coef._ratio(n1 + n2 * d1, d1)
+        if d1 == d2:
+            return Coef._ratio(n1 + n2, d1)
+        return Coef._ratio(n1 * d2 + n2 * d1, d1 * d2)
+
+    def __neg__(self) -> "Coef":
+        if self.expr is not None:
+            return Coef(expr=-self.expr)
+        return Coef(-self.num, self.den)
+
+    def __sub__(self, other: "Coef") -> "Coef":
+        return self + (-other)
+
+    def __mul__(self, other: "Coef") -> "Coef":
+        if self.expr is not None or other.expr is not None:
+            return Coef.from_expr_mode(self.to_expr() * other.to_expr())
+        n1, d1 = self._parts()
+        n2, d2 = other._parts()
+        if d1 is None and d2 is None:
+            return Coef(n1 * n2)
+        one = REGISTRY.ctx.constant(1)
+        return Coef._ratio(n1 * n2, (d1 if d1 is not None else one) * (d2 if d2 is not None else one))
+
+    def inverse(self) -> "Coef":
+        if self.is_zero():
+            raise ZeroDivisionError("division by zero")
+        if self.expr is not None:
+            return Coef.from_expr_mode(1 / self.expr)
+        n, d = self._parts()
+        return Coef._ratio(d if d is not None else REGISTRY.ctx.constant(1), n)
+
+    def __truediv__(self, other: "Coef") -> "Coef":
+        return self * other.inverse()
+
+    def __pow__(self, n: int) -> "Coef":
+        if n < 0:
+            return self.inverse() ** (-n)
+        if self.expr is not None:
+            return Coef.from_expr_mode(self.expr**n)
+        num, den = self._parts()
+        return Coef(num**n, den**n if den is not None else None)
+
+    def identical(self, other: "Coef") -> bool:
+        """Equal as rational functions of the generators (no relations applied)."""
+        return (self - other).is_zero()
+
+    # -- conversion ----------------------------------------------------------
+
+    @staticmethod
+    def from_expr_mode(expr) -> "Coef":
+        """Expr-mode coefficient; drops back to the exact domain when no float remains."""
+        expr = sympy.expand(expr)
+        if not expr.has(sympy.Float):
+            return from_expr(expr)
+        return Coef(expr=expr)
+
+    def to_expr(self):
+        if self.expr is not None:
+            return self.expr
+        num, den = self._parts()
+        e = poly_to_expr(num)
+        if den is not None:
+            e = e / poly_to_expr(den)
+        return e
+
+    def text(self) -> str:
+        """ASCII text, valid gacalc input: '*' products, '^' powers, '/' fractions."""
+        if self.expr is not None:
+            return ascii_text(self.expr)
+        num, den = self._parts()
+        t = str(num)
+        if den is None:
+            return t
+        if len(num) > 1:
+            t = f"({t})"
+        d = str(den)
+        if len(den) > 1 or "*" in d or "^" in d:
+            d = f"({d})"
+        return f"{t}/{d}"
+
+    def __repr__(self):
+        return f"Coef({self.text()})"
+
+
+def poly_to_expr(p):
+    gens = [sympy.Integer(1)] + [i.expr for i in REGISTRY.infos]
+    terms = []
+    for monom, c in zip(p.monoms(), p.coeffs()):
+        factors = [_fmpq_to_rational(c)]
+        for pos, e in enumerate(monom):
+            if e:
+                factors.append(gens[pos] ** e)
+        terms.append(sympy.Mul(*factors))
+    return sympy.Add(*terms)
+
+
+# ---------------------------------------------------------------------------
+# sympy Expr -> Coef
+
+
+_TRIG_REWRITES = {
+    sympy.tan: lambda a: (sympy.sin(a), sympy.cos(a), False),
+    sympy.cot: lambda a: (sympy.cos(a), sympy.sin(a), False),
+    sympy.sec: lambda a: (sympy.Integer(1), sympy.cos(a), False),
+    sympy.csc: lambda a: (sympy.Integer(1), sympy.sin(a), False),
+}
+
+
+def from_expr(expr) -> Coef:
+    """Convert a sympy expression into the domain (new atoms become generators)."""
+    if isinstance(expr, (int, Fraction)):
+        return Coef.constant(expr)
+    if not isinstance(expr, sympy.Basic):
+        raise DomainError(f"not a scalar: {expr!r}")
+    if expr.is_Rational:
+        return Coef.constant(expr)
+    if expr.is_Float:
+        return Coef(expr=expr)
+    if expr is sympy.I or (expr.is_number and expr.is_real is False):
+        raise DomainError("multivector coefficients are real; use I (e123) for the unit imaginary")
+    if expr.has(sympy.zoo, sympy.oo, sympy.nan, -sympy.oo):
+        raise DomainError("infinite or undefined value")
+    if expr.is_Add:
+        total = Coef.constant(0)
+        for t in expr.args:
+            total = total + from_expr(t)
+        return total
+    if expr.is_Mul:
+        total = Coef.constant(1)
+        for t in expr.args:
+            total = total * from_expr(t)
+        return total
+    if expr.is_Pow:
+        return _from_pow(expr)
+    if expr.is_Symbol:
+        if expr.is_real is False:
+            raise DomainError(f"{expr} is not real")
+        return Coef(REGISTRY.generator(expr, "symbol"))
+    if isinstance(expr, (sympy.cos, sympy.sin)):
+        return trig(type(expr).__name__, expr.args[0])
+    for fn, rewrite in _TRIG_REWRITES.items():
+        if isinstance(expr, fn):
+            num, den, _ = rewrite(expr.args[0])
+            return from_expr(num) / from_expr(den)
+    if isinstance(expr, sympy.exp):
+        arg = canonical_expr(expr.args[0])
+        return Coef(REGISTRY.generator(sympy.exp(arg), "other"))
+    if isinstance(expr, sympy.Function) or expr.is_Atom:
+        if getattr(expr, "is_Boolean", False) or expr.is_Relational:
+            raise DomainError("a condition is not a value")
+        args = [canonical_expr(a) for a in expr.args]
+        canon = expr.func(*args) if args else expr
+        if canon is not expr and canon != expr:
+            return from_expr(canon)
+        return Coef(REGISTRY.generator(canon, "other"))
+    raise DomainError(f"cannot use {type(expr).__name__} as a coefficient")
+
+
+def canonical_expr(expr):
+    """The canonical sympy form of an expression (through the domain)."""
+    c = from_expr(expr)
+    return c.to_expr()
+
+
+def _from_pow(expr) -> Coef:
+    base, e = expr.args
+    if e.is_Integer:
+        return from_expr(base) ** int(e)
+    if e.is_Rational:
+        p, n = int(e.p), int(e.q)
+        bc = from_expr(base)
+        if bc.is_constant() and bc.expr is None:
+            value = _fmpq_to_rational(bc.constant_value())
+            if value < 0 and n % 2 == 0:
+                raise DomainError("even root of a negative number is not real")
+            gexpr = sympy.Pow(value, sympy.Rational(1, n))
+            if gexpr.is_Rational:  # a perfect power
+                return Coef.constant(gexpr) ** p
+            if not (gexpr.is_Pow and gexpr.args[1] == sympy.Rational(1, n) and gexpr.args[0] == value):
+                return from_expr(gexpr) ** p  # sympy pulled out a factor: 8^(1/2) = 2 sqrt(2)
+        else:
+            gexpr = sympy.Pow(bc.to_expr(), sympy.Rational(1, n), evaluate=False)
+        g = Coef(REGISTRY.generator(gexpr, "root", root=(bc, n)))
+        return g**p
+    # symbolic exponent: an opaque atom
+    canon = sympy.Pow(canonical_expr(base), canonical_expr(e))
+    if canon.is_Pow:
+        return Coef(REGISTRY.generator(canon, "other"))
+    return from_expr(canon)
+
+
+def trig(kind: str, arg) -> Coef:
+    """cos(arg) or sin(arg) in the domain, with arg a sum of rational multiples of bases.
+
+    Addition theorems split sums, parity removes signs, so the generators are always
+    cos(q u), sin(q u) with q > 0: the simplifier can then relate them.
+    """
+    arg = canonical_expr(arg)
+    if arg.is_Add:
+        first, rest = arg.args[0], sympy.Add(*arg.args[1:])
+        c1, s1 = trig("cos", first), trig("sin", first)
+        c2, s2 = trig("cos", rest), trig("sin", rest)
+        if kind == "cos":
+            return c1 * c2 - s1 * s2
+        return s1 * c2 + c1 * s2
+    q, u = arg.as_coeff_Mul()
+    if not q.is_Rational:
+        fn = sympy.cos if kind == "cos" else sympy.sin
+        return Coef(expr=fn(arg))
+    if q == 0:
+        return Coef.constant(1 if kind == "cos" else 0)
+    sign = 1
+    if q < 0:
+        q = -q
+        if kind == "sin":
+            sign = -1
+    fn = sympy.cos if kind == "cos" else sympy.sin
+    value = fn(q * u)
+    if not isinstance(value, fn):  # sympy knew a value (cos(pi/3) = 1/2, ...)
+        c = from_expr(value)
+    else:
+        c = Coef(REGISTRY.generator(value, kind, trig=(sympy.Rational(q), u)))
+    return c if sign > 0 else -c
+
+
+# ---------------------------------------------------------------------------
+# ASCII text of sympy expressions (generator names and expr-mode coefficients)
+
+
+class _AsciiPrinter(StrPrinter):
+    """sympy's StrPrinter with gacalc's power operator and function names."""
+
+    _renames = {"Abs": "abs", "atan2": "atan2", "exp": "exp", "log": "ln"}
+
+    def _print_Pow(self, expr, rational=False):
+        base, e = expr.args
+        if e == sympy.Rational(1, 2):
+            return f"sqrt({self._print(base)})"
+        if e == -1:
+            return f"1/{self.parenthesize(base, 60)}"
+        if e.is_Rational and e.q != 1:
+            return f"{self.parenthesize(base, 60)}^({self._print(e)})"
+        if e.is_Number and e.is_negative:
+            return f"1/{self.parenthesize(base, 60)}^{self._print(-e)}"
+        if e.is_Atom and not e.is_negative:
+            return f"{self.parenthesize(base, 60)}^{self._print(e)}"
+        return f"{self.parenthesize(base, 60)}^({self._print(e)})"
+
+    def _print_Function(self, expr):
+        name = self._renames.get(expr.func.__name__, expr.func.__name__)
+        return f"{name}({', '.join(self._print(a) for a in expr.args)})"
+
+    def _print_Exp1(self, expr):
+        return "exp(1)"
+
+    def _print_Float(self, expr):
+        s = super()._print_Float(expr)
+        return s if "e" not in s.lower() else format(float(expr), "f")
+
+
+_PRINTER = _AsciiPrinter({"order": "none"})
+
+
+def ascii_text(expr) -> str:
+    return _PRINTER.doprint(expr)

@@ -1,0 +1,462 @@
+"""The immutable Cl(3,0) multivector and its products, involutions, norms and inverse."""
+
+from __future__ import annotations
+
+from fractions import Fraction
+from numbers import Integral
+
+import sympy
+
+from .basis import BASIS_GRADES, BASIS_INDICES, BASIS_NAMES, PRODUCT_TABLE, PSEUDOSCALAR, basis_of_word
+from .coefficients import Coef, DomainError, from_expr
+
+
+class AlgebraError(ArithmeticError):
+    """A mathematical request the algebra cannot satisfy (message is user-facing)."""
+
+
+class NotInvertibleError(AlgebraError):
+    """The multivector has no inverse; ``condition`` is the sympy Expr that vanishes."""
+
+    def __init__(self, message, condition=None):
+        super().__init__(message)
+        self.condition = condition
+
+
+def _product_terms(keep):
+    """(i, j, sign, k) for every pair of basis elements whose product term is kept."""
+    out = []
+    for i in range(8):
+        for j in range(8):
+            sign, k = PRODUCT_TABLE[i][j]
+            if keep(BASIS_GRADES[i], BASIS_GRADES[j], BASIS_GRADES[k]):
+                out.append((i, j, sign, k))
+    return tuple(out)
+
+
+# Every product of Cl(3,0) is the geometric product restricted to certain grade triples.
+_GEOMETRIC = _product_terms(lambda r, s, g: True)
+_OUTER = _product_terms(lambda r, s, g: g == r + s)
+_LEFT = _product_terms(lambda r, s, g: s >= r and g == s - r)
+_RIGHT = _product_terms(lambda r, s, g: r >= s and g == r - s)
+_HESTENES = _product_terms(lambda r, s, g: r > 0 and s > 0 and g == abs(r - s))
+_SCALAR = _product_terms(lambda r, s, g: g == 0)
+
+_SCALAR_TYPES = (Integral, Fraction, sympy.Basic)
+
+
+def _to_coef(x) -> Coef:
+    try:
+        return from_expr(x)
+    except DomainError as exc:
+        raise AlgebraError(str(exc)) from None
+
+
+class Multivector:
+    """An element of Cl(3,0): eight coefficients in the basis 1, e1, e2, e3, e23, e31, e12, e123.
+
+    Immutable.  Zero coefficients are never stored.  ``==`` means the difference simplifies
+    to zero (through gacalc.simplify); ``identical`` is the cheap exact comparison.
+    """
+
+    __slots__ = ("_c", "__weakref__")
+
+    def __init__(self, components=None):
+        c = [None] * 8
+        if components:
+            for key, value in dict(components).items():
+                k = key if isinstance(key, int) else _index_of(key)
+                coef = value if isinstance(value, Coef) else _to_coef(value)
+                if not coef.is_zero():
+                    c[k] = coef if c[k] is None else c[k] + coef
+                    if c[k].is_zero():
+                        c[k] = None
+        self._c = tuple(c)
+
+    @classmethod
+    def _from_coefs(cls, coefs) -> "Multivector":
+        mv = cls.__new__(cls)
+        mv._c = tuple(None if (x is None or x.is_zero()) else x for x in coefs)
+        return mv
+
+    @classmethod
+    def scalar(cls, x) -> "Multivector":
+        return x if isinstance(x, Multivector) else cls({0: x})
+
+    # -- access ----------------------------------------------------------------
+
+    def __getitem__(self, key):
+        k = key if isinstance(key, int) else _index_of(key)
+        c = self._c[k]
+        return sympy.Integer(0) if c is None else c.to_expr()
+
+    def coefs(self) -> tuple:
+        """The raw domain coefficients (for gacalc.algebra and gacalc.simplify only)."""
+        return self._c
+
+    def items(self):
+        return [(k, c.to_expr()) for k, c in enumerate(self._c) if c is not None]
+
+    def to_expr_dict(self) -> dict:
+        return dict(self.items())
+
+    def coefficient_texts(self):
+        """(index, ASCII coefficient text) for the nonzero components, in basis order."""
+        return [(k, c.text()) for k, c in enumerate(self._c) if c is not None]
+
+    @property
+    def free_symbols(self) -> set:
+        out = set()
+        for _, e in self.items():
+            out |= e.free_symbols
+        return out
+
+    def is_zero(self) -> bool:
+        return all(c is None for c in self._c)
+
+    def is_scalar(self) -> bool:
+        return all(c is None for c in self._c[1:])
+
+    def scalar_part(self):
+        return self[0]
+
+    def grades(self) -> frozenset:
+        return frozenset(BASIS_GRADES[k] for k, c in enumerate(self._c) if c is not None)
+
+    def is_homogeneous(self) -> bool:
+        return len(self.grades()) <= 1
+
+    # -- sums and scalar multiples -------------------------------------------------
+
+    def __add__(self, other):
+        other = _coerce(other)
+        if other is NotImplemented:
+            return other
+        return Multivector._from_coefs(
+            b if a is None else (a if b is None else a + b) for a, b in zip(self._c, other._c)
+        )
+
+    __radd__ = __add__
+
+    def __neg__(self):
+        return Multivector._from_coefs(None if a is None else -a for a in self._c)
+
+    def __pos__(self):
+        return self
+
+    def __sub__(self, other):
+        other = _coerce(other)
+        if other is NotImplemented:
+            return other
+        return self + (-other)
+
+    def __rsub__(self, other):
+        other = _coerce(other)
+        if other is NotImplemented:
+            return other
+        return other + (-self)
+
+    def scale(self, factor) -> "Multivector":
+        f = factor if isinstance(factor, Coef) else _to_coef(factor)
+        return Multivector._from_coefs(None if a is None else a * f for a in self._c)
+
+    # -- products --------------------------------------------------------------------
+
+    def _product(self, other, terms) -> "Multivector":
+        other = _coerce(other)
+        a, b = self._c, other._c
+        out = [None] * 8
+        for i, j, sign, k in terms:
+            x, y = a[i], b[j]
+            if x is None or y is None:
+                continue
+            t = x * y
+            acc = out[k]
+            if acc is None:
+                out[k] = t if sign > 0 else -t
+            else:
+                out[k] = acc + t if sign > 0 else acc - t
+        return Multivector._from_coefs(out)
+
+    def __mul__(self, other):
+        if _coerce(other) is NotImplemented:
+            return NotImplemented
+        return self._product(other, _GEOMETRIC)
+
+    def __rmul__(self, other):
+        other = _coerce(other)
+        if other is NotImplemented:
+            return other
+        return other._product(self, _GEOMETRIC)
+
+    def outer(self, other):
+        return self._product(other, _OUTER)
+
+    def lc(self, other):
+        """Left contraction A ⌋ B."""
+        return self._product(other, _LEFT)
+
+    def rc(self, other):
+        """Right contraction A ⌊ B."""
+        return self._product(other, _RIGHT)
+
+    def inner(self, other):
+        """Hestenes inner product: <A_r B_s>_|r-s|, zero when either factor is a scalar."""
+        return self._product(other, _HESTENES)
+
+    def scalar_product(self, other):
+        return self._product(other, _SCALAR)
+
+    def comm(self, other):
+        other = _coerce(other)
+        return (self * other - other * self).scale(sympy.Rational(1, 2))
+
+    def anticomm(self, other):
+        other = _coerce(other)
+        return (self * other + other * self).scale(sympy.Rational(1, 2))
+
+    def __truediv__(self, other):
+        other = _coerce(other)
+        if other is NotImplemented:
+            return other
+        if other.is_scalar():
+            c = other._c[0]
+            if c is None:
+                raise AlgebraError("division by zero")
+            return self.scale(c.inverse())
+        return self * other.inverse()
+
+    def __rtruediv__(self, other):
+        other = _coerce(other)
+        if other is NotImplemented:
+            return other
+        return other / self
+
+    def __pow__(self, n):
+        if isinstance(n, sympy.Integer):
+            n = int(n)
+        if not isinstance(n, Integral):
+            raise AlgebraError("only integer powers of a multivector; use the rotor functions for others")
+        n = int(n)
+        if n < 0:
+            return self.inverse() ** (-n)
+        result, base = ONE, self
+        while n:
+            if n & 1:
+                result = result * base
+            n >>= 1
+            if n:
+                base = base * base
+        return result
+
+    # -- grades and involutions -------------------------------------------------------
+
+    def grade(self, k: int) -> "Multivector":
+        return Multivector._from_coefs(c if BASIS_GRADES[i] == k else None for i, c in enumerate(self._c))
+
+    def even(self):
+        return Multivector._from_coefs(c if BASIS_GRADES[i] % 2 == 0 else None for i, c in enumerate(self._c))
+
+    def odd(self):
+        return Multivector._from_coefs(c if BASIS_GRADES[i] % 2 == 1 else None for i, c in enumerate(self._c))
+
+    def _signed(self, sign_of_grade) -> "Multivector":
+        return Multivector._from_coefs(
+            None if c is None else (c if sign_of_grade(BASIS_GRADES[i]) > 0 else -c)
+            for i, c in enumerate(self._c)
+        )
+
+    def rev(self):
+        """Reverse: grade r picks up (-1)^(r(r-1)/2)."""
+        return self._signed(lambda r: -1 if (r * (r - 1) // 2) % 2 else 1)
+
+    def involute(self):
+        """Grade involution: grade r picks up (-1)^r."""
+        return self._signed(lambda r: -1 if r % 2 else 1)
+
+    def conjugate(self):
+        """Clifford conjugate: reverse and grade involution combined."""
+        return self._signed(lambda r: -1 if (r * (r + 1) // 2) % 2 else 1)
+
+    def dual(self):
+        """A I^-1 (I^-1 = -I)."""
+        return -(self * I)
+
+    def undual(self):
+        """A I."""
+        return self * I
+
+    # -- norms and inverse ----------------------------------------------------------------
+
+    def norm2(self):
+        """<A A~>_0: the sum of the squared coefficients in Cl(3,0)."""
+        return self.scalar_product(self.rev())[0]
+
+    def norm(self):
+        from gacalc.simplify import simplify_scalar
+
+        return sympy.sqrt(simplify_scalar(self.norm2()))
+
+    def central_norm(self):
+        """(a, b) with A Ā = a + b I: the product is central, and that is what inverts A."""
+        p = self * self.conjugate()
+        return p._c[0], p._c[PSEUDOSCALAR]
+
+    def inverse_with_condition(self):
+        """(A^-1, condition): condition is a sympy Expr that must be nonzero, or None.
+
+        A^-1 = Ā (a - b I) / (a^2 + b^2), where A Ā = a + b I.
+        """
+        from gacalc.simplify import decide_zero, reduce_coef
+
+        a, b = self.central_norm()
+        zero = Coef.constant(0)
+        a, b = reduce_coef(a or zero), reduce_coef(b or zero)
+        d = reduce_coef(a * a + b * b)
+        verdict = decide_zero(d)
+        if verdict is True:
+            cond = _condition_text_expr(d)
+            raise NotInvertibleError(
+                f"not invertible: a^2 + b^2 = 0 where A*conjugate(A) = a + b*I (here {cond} = 0)", cond
+            )
+        numer = self.conjugate() * Multivector._from_coefs([a, None, None, None, None, None, None, -b])
+        inv = numer.scale(d.inverse())
+        condition = None if d.is_constant() else _condition_text_expr(d)
+        return inv, condition
+
+    def inverse(self):
+        return self.inverse_with_condition()[0]
+
+    # -- comparison, substitution, display -------------------------------------------------
+
+    def identical(self, other) -> bool:
+        """Equal as rational functions of the generators, no relations applied."""
+        other = _coerce(other)
+        if other is NotImplemented:
+            return False
+        return (self - other).is_zero()
+
+    def equals(self, other, conditions=()) -> bool:
+        from gacalc.simplify import is_zero
+
+        other = _coerce(other)
+        if other is NotImplemented:
+            return False
+        return is_zero(self - other, conditions) is True
+
+    def __eq__(self, other):
+        if _coerce(other) is NotImplemented:
+            return NotImplemented
+        return self.equals(other)
+
+    def __ne__(self, other):
+        eq = self.__eq__(other)
+        return eq if eq is NotImplemented else not eq
+
+    def __hash__(self):
+        # Equality is decided by simplification, so no syntactic hash is invariant under it;
+        # hash on the set of grades that cannot vanish... is not invariant either.  A
+        # constant hash is the honest choice: correct, only slow in large sets.
+        return hash(Multivector)
+
+    def subs(self, mapping) -> "Multivector":
+        return Multivector({k: e.subs(mapping) for k, e in self.items()})
+
+    def map_coefficients(self, fn) -> "Multivector":
+        return Multivector({k: fn(e) for k, e in self.items()})
+
+    def evalf(self, n: int = 15) -> "Multivector":
+        return self.map_coefficients(lambda e: sympy.N(e, n))
+
+    def __str__(self):
+        parts = []
+        for k, text in self.coefficient_texts():
+            if k == 0:
+                parts.append(text)
+                continue
+            if text == "1":
+                parts.append(BASIS_NAMES[k])
+            elif text == "-1":
+                parts.append("-" + BASIS_NAMES[k])
+            elif " " in text or "/" in text:
+                parts.append(f"({text})*{BASIS_NAMES[k]}")
+            else:
+                parts.append(f"{text}*{BASIS_NAMES[k]}")
+        if not parts:
+            return "0"
+        out = parts[0]
+        for p in parts[1:]:
+            out += " - " + p[1:] if p.startswith("-") else " + " + p
+        return out
+
+    def __repr__(self):
+        return f"Multivector({self})"
+
+    def _repr_latex_(self):
+        from gacalc.export import latex_of
+
+        return f"$${latex_of(self)}$$"
+
+
+def _condition_text_expr(d: Coef):
+    """The vanishing condition a^2 + b^2 as a sympy Expr, with repeated factors taken once."""
+    expr = d.to_expr()
+    try:
+        sqf = sympy.sqf_part(sympy.numer(sympy.together(expr)))
+        return sqf
+    except (sympy.PolynomialError, ValueError):
+        return expr
+
+
+def _index_of(key) -> int:
+    if isinstance(key, str):
+        if key in BASIS_NAMES:
+            return BASIS_NAMES.index(key)
+    raise KeyError(f"not a basis element: {key!r}")
+
+
+def _coerce(x):
+    if isinstance(x, Multivector):
+        return x
+    if isinstance(x, _SCALAR_TYPES):
+        if isinstance(x, sympy.Basic) and not isinstance(x, sympy.Expr):
+            return NotImplemented
+        return Multivector({0: x})
+    return NotImplemented
+
+
+def blade(indices: str | tuple = "") -> Multivector:
+    """The basis blade of an index string: blade('21') = -e12, blade('11') = 1, blade('312') = e123."""
+    word = tuple(int(ch) for ch in indices) if isinstance(indices, str) else tuple(indices)
+    if any(i not in (1, 2, 3) for i in word):
+        raise AlgebraError("basis vector indices are 1, 2 and 3")
+    sign, k = basis_of_word(word)
+    return Multivector({k: sign})
+
+
+def vector(x, y, z) -> Multivector:
+    return Multivector({1: x, 2: y, 3: z})
+
+
+def bivector(b23, b31, b12) -> Multivector:
+    return Multivector({4: b23, 5: b31, 6: b12})
+
+
+def cross(a: Multivector, b: Multivector) -> Multivector:
+    """Gibbs cross product of two vectors: a × b = dual(a ∧ b), so e1 × e2 = e3."""
+    a, b = _coerce(a), _coerce(b)
+    for v in (a, b):
+        if not v.grades() <= {1}:
+            raise AlgebraError("cross product needs two vectors")
+    return a.outer(b).dual()
+
+
+ONE = Multivector({0: 1})
+e1, e2, e3 = (Multivector({k: 1}) for k in (1, 2, 3))
+e23, e31, e12 = (Multivector({k: 1}) for k in (4, 5, 6))
+I = Multivector({7: 1})
+
+__all__ = [
+    "AlgebraError", "NotInvertibleError", "Multivector", "blade", "vector", "bivector", "cross",
+    "ONE", "e1", "e2", "e3", "e23", "e31", "e12", "I", "BASIS_INDICES",
+]

@@ -1,0 +1,46 @@
+"""Symbolic multivectors of a declared kind, and the side conditions the kind implies."""
+
+from __future__ import annotations
+
+import sympy
+
+from .multivector import AlgebraError, Multivector
+
+# kind -> (basis indices, component name suffixes); names follow DESIGN.md:
+# vector a -> a1 a2 a3; bivector B -> B23 B31 B12; rotor R -> R0 R23 R31 R12;
+# multivector M -> M0 M1 M2 M3 M23 M31 M12 M123.
+KIND_COMPONENTS = {
+    "scalar": ((0,), ("",)),
+    "vector": ((1, 2, 3), ("1", "2", "3")),
+    "bivector": ((4, 5, 6), ("23", "31", "12")),
+    "trivector": ((7,), ("123",)),
+    "rotor": ((0, 4, 5, 6), ("0", "23", "31", "12")),
+    "even": ((0, 4, 5, 6), ("0", "23", "31", "12")),
+    "multivector": ((0, 1, 2, 3, 4, 5, 6, 7), ("0", "1", "2", "3", "23", "31", "12", "123")),
+}
+
+# kinds whose unit condition is implied by the declaration itself
+UNIT_BY_DEFAULT = {"rotor"}
+
+
+def component_symbols(kind: str, name: str) -> list:
+    try:
+        _, suffixes = KIND_COMPONENTS[kind]
+    except KeyError:
+        raise AlgebraError(f"unknown kind {kind!r}") from None
+    return [sympy.Symbol(name + s, real=True) for s in suffixes]
+
+
+def symbolic(kind: str, name: str, unit: bool = False):
+    """(Multivector, conditions): conditions are sympy Exprs equal to zero on the declared set."""
+    indices, _ = KIND_COMPONENTS.get(kind, (None, None))
+    if indices is None:
+        raise AlgebraError(f"unknown kind {kind!r}")
+    syms = component_symbols(kind, name)
+    mv = Multivector(dict(zip(indices, syms)))
+    conditions = []
+    if unit or kind in UNIT_BY_DEFAULT:
+        if kind == "scalar":
+            raise AlgebraError("a unit scalar is just ±1")
+        conditions.append(sympy.Add(*[s**2 for s in syms]) - 1)
+    return mv, conditions

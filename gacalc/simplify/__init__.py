@@ -1,0 +1,153 @@
+"""Coefficient simplification: the one place where relations between generators apply.
+
+Policy, cheapest first:
+1. Exact arithmetic in the coefficient domain already expands and cancels (gcd) for free.
+2. ``reduce_coef``: a canonical form modulo the relations of the generators —
+   every trigonometric family cos(q u), sin(q u) is written over its base angle g u and
+   sin^2 -> 1 - cos^2; a radical r = b^(1/n) has r^n -> b.  Zero in this form is zero.
+3. Side conditions (unit vectors, `given` lists) reduce further modulo a Gröbner basis
+   (gacalc.simplify.conditions).
+4. ``display_coef``: for printing, products of half angles are merged back into full
+   angles (cos^2(t/2) - sin^2(t/2) -> cos t) whenever that is not longer.
+Every call runs under a time budget; when it runs out the correct but unsimplified value
+comes back marked ``complete=False``.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import sympy
+
+from gacalc.algebra.coefficients import REGISTRY, Coef, from_expr
+from gacalc.algebra.multivector import Multivector
+
+from .budget import Budget, BudgetExceeded, time_limit
+from .relations import reduce_poly_relations, merge_half_angles, has_opaque_generators
+
+DEFAULT_BUDGET = 10.0  # seconds per simplification call
+
+
+@dataclass
+class SimplifyResult:
+    value: Multivector
+    complete: bool = True
+    used_conditions: tuple = field(default_factory=tuple)
+    message: str = ""
+
+
+def _conditions_reducer(conditions):
+    if not conditions:
+        return None
+    from .conditions import ConditionSet
+
+    return ConditionSet.of(conditions)
+
+
+def reduce_coef(coef: Coef, conditions=None, budget: Budget | None = None) -> Coef:
+    """Canonical form of a coefficient modulo the generator relations (and conditions)."""
+    if coef is None or coef.expr is not None:
+        return coef
+    num, den = coef._parts()
+    reducer = _conditions_reducer(conditions)
+    parts = []
+    for p in (num, den):
+        if p is None:
+            continue
+        c = reduce_poly_relations(p, budget)
+        if reducer is not None:
+            c = reducer.reduce(c, budget)
+        parts.append(c)
+    return parts[0] if len(parts) == 1 else parts[0] / parts[1]
+
+
+def display_coef(coef: Coef, conditions=None, budget: Budget | None = None) -> Coef:
+    c = reduce_coef(coef, conditions, budget)
+    if c is None or c.expr is not None:
+        return c
+    num, den = c._parts()
+    num = merge_half_angles(num, budget)
+    if den is not None:
+        return num / merge_half_angles(den, budget)
+    return num
+
+
+def decide_zero(coef: Coef, conditions=None, budget: Budget | None = None):
+    """True if the coefficient is zero, False if it is not, None if that cannot be decided."""
+    if coef is None:
+        return True
+    if coef.expr is not None:
+        value = sympy.simplify(coef.expr)
+        return True if value == 0 else (False if value.is_number else None)
+    c = reduce_coef(coef, conditions, budget)
+    if c.is_zero():
+        return True
+    if c.is_constant():
+        return False
+    if not has_opaque_generators(c):
+        # symbols and trig families are algebraically independent once reduced
+        return False
+    return _decide_opaque(c, budget)
+
+
+def _decide_opaque(c: Coef, budget):
+    """Generators with hidden relations (abs, exp, nested roots): a numeric witness, then sympy."""
+    expr = Coef(c.num).to_expr()
+    free = sorted(expr.free_symbols, key=str)
+    values = {s: sympy.Rational(7 + 3 * i, 11 + 2 * i) for i, s in enumerate(free)}
+    try:
+        v = sympy.N(expr.subs(values), 30)
+        if v.is_number and abs(v) > 1e-20:
+            return False  # a point where it does not vanish disproves the identity
+    except (TypeError, ValueError, ZeroDivisionError):
+        pass
+    try:
+        if budget is not None:
+            budget.check()
+        return True if sympy.simplify(expr) == 0 else None
+    except BudgetExceeded:
+        return None
+
+
+def is_zero(mv: Multivector, conditions=(), budget=None):
+    """True / False / None (undecided) for 'this multivector vanishes'."""
+    budget = _as_budget(budget)
+    try:
+        with time_limit(budget):
+            verdicts = [decide_zero(c, conditions, budget) for c in mv.coefs() if c is not None]
+    except BudgetExceeded:
+        return None
+    if all(v is True for v in verdicts):
+        return True
+    if any(v is False for v in verdicts):
+        return False
+    return None
+
+
+def simplify(mv: Multivector, conditions=(), budget=None) -> SimplifyResult:
+    """The multivector with each coefficient in its display form."""
+    budget = _as_budget(budget)
+    try:
+        with time_limit(budget):
+            coefs = [display_coef(c, conditions, budget) for c in mv.coefs()]
+    except BudgetExceeded:
+        return SimplifyResult(mv, complete=False, message="simplification gave up within its time budget")
+    return SimplifyResult(Multivector._from_coefs(coefs), True, tuple(conditions or ()))
+
+
+def simplify_scalar(expr, conditions=(), budget=None):
+    """A sympy scalar through the same policy; returns a sympy Expr."""
+    result = simplify(Multivector({0: expr}), conditions, budget)
+    return result.value[0]
+
+
+def _as_budget(budget):
+    if isinstance(budget, Budget):
+        return budget
+    return Budget(DEFAULT_BUDGET if budget is None else float(budget))
+
+
+__all__ = [
+    "SimplifyResult", "simplify", "is_zero", "simplify_scalar", "reduce_coef", "display_coef",
+    "decide_zero", "Budget", "BudgetExceeded", "DEFAULT_BUDGET", "REGISTRY", "from_expr",
+]

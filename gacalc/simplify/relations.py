@@ -1,0 +1,249 @@
+"""The relations every generator carries with it, applied by rewriting polynomial terms.
+
+Trigonometric families: all cos(q u), sin(q u) of one base u are rewritten over the base
+angle g u (g the rational gcd of the q's, multiple angles by the Chebyshev recurrences),
+then sin^2 -> 1 - cos^2.  The result P(c) + s Q(c) is unique, so zero there is zero.
+Radicals r = b^(1/n): r^n -> b.  Both relation sets have pure-power leading terms in
+distinct generators, so term rewriting is reduction modulo a Gröbner basis.
+"""
+
+from __future__ import annotations
+
+from functools import reduce as _fold
+from math import gcd
+
+import sympy
+
+from gacalc.algebra.coefficients import REGISTRY, Coef, trig
+
+MAX_MULTIPLE = 64  # cos(m x) with larger m is left alone rather than expanded
+MAX_PASSES = 12
+
+
+def _used_positions(p):
+    return [pos for pos, d in enumerate(p.degrees()) if d > 0]
+
+
+def _families(p):
+    """{base u: {q: (kind, position)}} for the trig generators used by p."""
+    fams = {}
+    for pos in _used_positions(p):
+        if pos == 0:
+            continue
+        info = REGISTRY.info(pos)
+        if info.kind in ("cos", "sin"):
+            q, u = info.trig
+            fams.setdefault(u, {}).setdefault(q, {})[info.kind] = pos
+    return fams
+
+
+def _group_terms(p, positions):
+    """{exponents at positions: polynomial of the remaining factors}."""
+    groups = {}
+    ctx = p.context()
+    for monom, coeff in zip(p.monoms(), p.coeffs()):
+        key = tuple(monom[i] for i in positions)
+        rest = list(monom)
+        for i in positions:
+            rest[i] = 0
+        groups.setdefault(key, {})[tuple(rest)] = coeff
+    return {key: ctx.from_dict(d) for key, d in groups.items()}
+
+
+def _rewrite(p, positions, image, budget=None) -> Coef:
+    """Sum over term groups of image(exponents) * rest, image returning a Coef."""
+    total = Coef.constant(0)
+    for key, rest in _group_terms(p, positions).items():
+        if budget is not None:
+            budget.check()
+        total = total + image(key) * Coef(rest)
+    return total
+
+
+def _rational_gcd(qs):
+    nums = [int(q.p) for q in qs]
+    dens = [int(q.q) for q in qs]
+    lcm = _fold(lambda a, b: a * b // gcd(a, b), dens, 1)
+    return sympy.Rational(_fold(gcd, nums), lcm)
+
+
+def _multiple_angle(c: Coef, s: Coef, m: int):
+    """(cos(m x), sin(m x)) from c = cos x, s = sin x by the Chebyshev recurrences."""
+    cos_prev, cos_cur = Coef.constant(1), c
+    sin_prev, sin_cur = Coef.constant(0), s
+    two_c = c * Coef.constant(2)
+    for _ in range(m - 1):
+        cos_prev, cos_cur = cos_cur, two_c * cos_cur - cos_prev
+        sin_prev, sin_cur = sin_cur, two_c * sin_cur - sin_prev
+    return cos_cur, sin_cur
+
+
+def _to_base_angles(p, budget):
+    """Rewrite every trig family of p over its base angle.  Returns a Coef."""
+    fams = _families(p)
+    substitutions = {}
+    for u, by_q in fams.items():
+        if len(by_q) == 1:
+            continue
+        g = _rational_gcd(list(by_q))
+        if max(q / g for q in by_q) > MAX_MULTIPLE:
+            continue
+        c, s = trig("cos", g * u), trig("sin", g * u)
+        for q, kinds in by_q.items():
+            m = int(q / g)
+            if m == 1:
+                continue
+            cm, sm = _multiple_angle(c, s, m)
+            for kind, pos in kinds.items():
+                substitutions[REGISTRY.info(pos).expr] = cm if kind == "cos" else sm
+    if not substitutions:
+        return Coef(p)
+    p = REGISTRY.lift(p)
+    positions = [REGISTRY.by_expr[e] + 1 for e in substitutions]
+    images = [substitutions[e] for e in substitutions]
+    def image(key):
+        out = Coef.constant(1)
+        for pos, img, e in zip(positions, images, key):
+            if e:
+                out = out * img**e
+        return out
+
+    return _rewrite(p, positions, image, budget)
+
+
+def _power_rules(p):
+    """{position: (n, Coef of gen^n)}: sin^2 -> 1 - cos^2 and radical^n -> base."""
+    rules = {}
+    for pos in _used_positions(p):
+        if pos == 0:
+            continue
+        info = REGISTRY.info(pos)
+        if info.kind == "sin":
+            cos_coef = trig("cos", info.trig[0] * info.trig[1])
+            rules[info.expr] = (2, Coef.constant(1) - cos_coef * cos_coef)
+        elif info.kind == "root":
+            base, n = info.root
+            rules[info.expr] = (n, base)
+    return rules
+
+
+def _reduce_powers(p, budget) -> Coef:
+    current = Coef(p)
+    for _ in range(MAX_PASSES):
+        num = REGISTRY.lift(current.num)
+        rules = _power_rules(num)
+        if not rules:
+            break
+        positions = [REGISTRY.by_expr[e] + 1 for e in rules]
+        degs = num.degrees()
+        if all(degs[pos] < rules[e][0] for pos, e in zip(positions, rules)):
+            break
+        gens = REGISTRY.ctx.gens()
+        plist = [(pos, rules[e]) for pos, e in zip(positions, rules)]
+
+        def image(key):
+            out = Coef.constant(1)
+            for (pos, (n, repl)), e in zip(plist, key):
+                if e:
+                    q, r = divmod(e, n)
+                    if r:
+                        out = out * Coef(gens[pos] ** r)
+                    if q:
+                        out = out * repl**q
+            return out
+
+        reduced = _rewrite(num, positions, image, budget)
+        if current.den is not None:
+            reduced = reduced / Coef(REGISTRY.lift(current.den))
+        current = reduced
+        if current.den is not None:
+            # a radical with a rational base can bring a denominator; reduce the numerator
+            return _reduce_powers(REGISTRY.lift(current.num), budget) / Coef(REGISTRY.lift(current.den))
+    return current
+
+
+def reduce_poly_relations(p, budget=None) -> Coef:
+    """Canonical form of a polynomial modulo the generator relations."""
+    p = REGISTRY.lift(p)
+    if p.is_constant():
+        return Coef(p)
+    c = _to_base_angles(p, budget)
+    out = _reduce_powers(REGISTRY.lift(c.num), budget)
+    if c.den is not None:
+        out = out / Coef(REGISTRY.lift(c.den))
+    return out
+
+
+def _term_count(c: Coef) -> int:
+    return len(c.num) + (len(c.den) if c.den is not None else 0)
+
+
+def merge_half_angles(p, budget=None) -> Coef:
+    """For display: products of half angles become full angles when that is not longer.
+
+    Input is in reduced form (each family over one angle, sin at most linear).  The term
+    c^a s^b becomes, with C = cos 2x, S = sin 2x: c^2 -> (1 + C)/2, c s -> S/2, keeping one
+    c or s for odd total degree.  Accepted when it has fewer terms, or as many and the
+    half angle disappears.
+    """
+    current = Coef(REGISTRY.lift(p))
+    for _ in range(MAX_PASSES):
+        num = REGISTRY.lift(current.num)
+        fams = _families(num)
+        changed = False
+        for u, by_q in fams.items():
+            if len(by_q) != 1:
+                continue
+            (q, kinds), = by_q.items()
+            c_pos = kinds.get("cos")
+            s_pos = kinds.get("sin")
+            C, S = trig("cos", 2 * q * u), trig("sin", 2 * q * u)
+            num = REGISTRY.lift(num)
+            gens = REGISTRY.ctx.gens()
+            positions = [pos for pos in (c_pos, s_pos) if pos is not None]
+            half = (Coef.constant(1) + C) * Coef.constant(sympy.Rational(1, 2))
+
+            def image(key, c_pos=c_pos, s_pos=s_pos, half=half, S=S, gens=gens):
+                exps = dict(zip([x for x in (c_pos, s_pos) if x is not None], key))
+                a, b = exps.get(c_pos, 0), exps.get(s_pos, 0)
+                out = Coef.constant(1)
+                if b >= 2:  # not reduced; leave this group alone
+                    out = out * Coef(gens[s_pos] ** b)
+                    b = 0
+                if b == 1 and a >= 1:
+                    out = out * S * Coef.constant(sympy.Rational(1, 2))
+                    a -= 1
+                elif b == 1:
+                    out = out * Coef(gens[s_pos])
+                if a % 2:
+                    out = out * Coef(gens[c_pos])
+                if a // 2:
+                    out = out * half ** (a // 2)
+                return out
+
+            candidate = _rewrite(num, positions, image, budget)
+            cand_num = REGISTRY.lift(candidate.num)
+            still_half = any(cand_num.degrees()[pos] > 0 for pos in positions)
+            before, after = len(num), len(cand_num)
+            if after < before or (after == before and not still_half):
+                num = cand_num
+                changed = True
+        current = Coef(num)
+        if not changed:
+            break
+    return current
+
+
+def has_opaque_generators(c: Coef) -> bool:
+    """Generators whose relations we do not model (abs, exp, several radicals, ...)."""
+    from gacalc.algebra.coefficients import generators_of
+
+    infos = generators_of(c)
+    roots = [i for i in infos if i.kind == "root"]
+    if any(i.kind == "other" and not i.expr.is_Atom for i in infos):
+        return True
+    if any(i.kind == "other" and i.expr.is_number for i in infos):
+        return True  # pi, E: transcendental, but cos(pi/5) and friends relate to them
+    if len(roots) > 1 or any(r.root[0].is_constant() for r in roots):
+        return True
+    return False
