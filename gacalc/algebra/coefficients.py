@@ -56,6 +56,7 @@ class _Registry:
         self.by_expr: dict = {}
         self.names: set[str] = set()
         self.ctx = flint.fmpq_mpoly_ctx.get(("_one",), _ORDER)
+        self.gens = self.ctx.gens()
 
     def generator(self, expr, kind="other", trig=None, root=None):
         """The flint polynomial of the generator for ``expr``, registering it if new."""
@@ -65,12 +66,16 @@ class _Registry:
             if name in self.names or not name.isascii():
                 name = f"_g{len(self.infos)}_{abs(hash(name)) % 10**6}"
             idx = len(self.infos)
-            self.infos.append(GeneratorInfo(expr, name, kind, trig, root))
+            info = GeneratorInfo(expr, name, kind, trig, root)
+            # '_one' keeps the context non-empty before the first generator arrives.
+            # Build the new context first so an interrupt cannot leave the registry torn.
+            ctx = flint.fmpq_mpoly_ctx.get(("_one",) + tuple(i.name for i in self.infos) + (name,), _ORDER)
+            gens = ctx.gens()
+            self.infos.append(info)
             self.by_expr[expr] = idx
             self.names.add(name)
-            # '_one' keeps the context non-empty before the first generator arrives
-            self.ctx = flint.fmpq_mpoly_ctx.get(("_one",) + tuple(i.name for i in self.infos), _ORDER)
-        return self.ctx.gens()[idx + 1]
+            self.ctx, self.gens = ctx, gens
+        return self.gens[idx + 1]
 
     def info(self, position: int) -> GeneratorInfo:
         """Info of the generator at a flint variable position (position 0 is '_one')."""

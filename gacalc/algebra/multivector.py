@@ -6,6 +6,7 @@ from fractions import Fraction
 from numbers import Integral
 
 import sympy
+from sympy.polys.polyerrors import BasePolynomialError
 
 from .basis import BASIS_GRADES, BASIS_INDICES, BASIS_NAMES, PRODUCT_TABLE, PSEUDOSCALAR, basis_of_word
 from .coefficients import Coef, DomainError, from_expr
@@ -316,9 +317,11 @@ class Multivector:
         verdict = decide_zero(d)
         if verdict is True:
             cond = _condition_text_expr(d)
-            raise NotInvertibleError(
-                f"not invertible: a^2 + b^2 = 0 where A*conjugate(A) = a + b*I (here {cond} = 0)", cond
-            )
+            if a.is_zero() and b.is_zero():
+                message = "not invertible: it times its Clifford conjugate is 0 (a zero divisor)"
+            else:
+                message = f"not invertible: a^2 + b^2 = 0 for A*conjugate(A) = a + b*I (a^2 + b^2 = {cond})"
+            raise NotInvertibleError(message, cond)
         numer = self.conjugate() * Multivector._from_coefs([a, None, None, None, None, None, None, -b])
         inv = numer.scale(d.inverse())
         condition = None if d.is_constant() else _condition_text_expr(d)
@@ -401,10 +404,11 @@ class Multivector:
 def _condition_text_expr(d: Coef):
     """The vanishing condition a^2 + b^2 as a sympy Expr, with repeated factors taken once."""
     expr = d.to_expr()
+    if expr.is_number:
+        return expr
     try:
-        sqf = sympy.sqf_part(sympy.numer(sympy.together(expr)))
-        return sqf
-    except (sympy.PolynomialError, ValueError):
+        return sympy.sqf_part(sympy.numer(sympy.together(expr)))
+    except (BasePolynomialError, ValueError):
         return expr
 
 

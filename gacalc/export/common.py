@@ -11,6 +11,7 @@ import keyword
 import re
 
 import sympy
+from sympy.printing.codeprinter import PrintMethodNotImplementedError
 
 BASIS_NAMES = ('1', 'e1', 'e2', 'e3', 'e23', 'e31', 'e12', 'e123')
 BASIS_GRADES = (0, 1, 1, 1, 2, 2, 2, 3)
@@ -20,13 +21,17 @@ BASIS_ORDER_TEXT = ', '.join(BASIS_NAMES)
 KIND_SUFFIXES = {
     'vector': ('1', '2', '3'),
     'bivector': ('23', '31', '12'),
+    'trivector': ('123',),
     'rotor': ('0', '23', '31', '12'),
+    'even': ('0', '23', '31', '12'),
     'multivector': ('0', '1', '2', '3', '23', '31', '12', '123'),
 }
 KIND_BASIS = {
     'vector': ('e1', 'e2', 'e3'),
     'bivector': ('e23', 'e31', 'e12'),
+    'trivector': ('e123',),
     'rotor': ('1', 'e23', 'e31', 'e12'),
+    'even': ('1', 'e23', 'e31', 'e12'),
     'multivector': BASIS_NAMES,
 }
 KINDS = tuple(KIND_SUFFIXES) + ('scalar',)
@@ -84,6 +89,14 @@ class Value:
             return list(self.matrix)
         return [expr for _, expr in self.components]
 
+    def vector_slots(self):
+        """Output positions of the e1, e2, e3 components (None where zero, or for a
+        matrix), so that the code emitters can look for rotated vectors."""
+        if self.is_matrix:
+            return None
+        positions = {index: position for position, (index, _) in enumerate(self.components)}
+        return [positions.get(index) for index in (1, 2, 3)]
+
     @property
     def free_symbols(self):
         found = set()
@@ -94,6 +107,8 @@ class Value:
 
 def read_value(value):
     """Turn any accepted value into a Value; zero components are dropped."""
+    if isinstance(value, Value):
+        return value
     if isinstance(value, sympy.MatrixBase):
         if value.shape[0] == 0 or value.shape[1] == 0:
             raise ExportError('cannot export an empty matrix')
@@ -155,7 +170,8 @@ class Argument:
     def describe(self):
         """Text for a header comment or docstring."""
         if not self.is_sequence:
-            return f'{self.code_name}: scalar {self.name}'
+            return (f"{self.code_name}: scalar" if self.code_name == self.name
+                    else f"{self.code_name}: scalar {self.name}")
         parts = ', '.join(symbol.name for symbol in self.symbols)
         basis = ', '.join(KIND_BASIS[self.kind])
         return (f'{self.code_name}[{len(self.symbols)}]: {self.kind} {self.name} = '
@@ -237,3 +253,13 @@ def output_labels(value):
         rows, cols = value.matrix.shape
         return [f'[{r}][{c}]' for r in range(rows) for c in range(cols)]
     return [BASIS_NAMES[index] for index, _ in value.components]
+
+
+def print_or_refuse(printer, expr, language):
+    """printer.doprint(expr), or an ExportError naming what language cannot express."""
+    try:
+        return printer.doprint(expr)
+    except PrintMethodNotImplementedError as error:
+        what = str(error).splitlines()[0].rsplit(': ', 1)[-1]
+        raise ExportError(f'cannot write this value in {language}: {what} has no '
+                          f'{language} counterpart') from None

@@ -23,7 +23,7 @@ from gacalc.algebra.coefficients import REGISTRY, Coef, from_expr
 from gacalc.algebra.multivector import Multivector
 
 from .budget import Budget, BudgetExceeded, time_limit
-from .relations import reduce_poly_relations, merge_half_angles, has_opaque_generators
+from .relations import has_opaque_generators, reduce_poly_relations, shortest_display
 
 DEFAULT_BUDGET = 10.0  # seconds per simplification call
 
@@ -51,10 +51,10 @@ def reduce_coef(coef: Coef, conditions=None, budget: Budget | None = None) -> Co
     num, den = coef._parts()
     reducer = _conditions_reducer(conditions)
     parts = []
-    for p in (num, den):
+    for p, other in ((num, den), (den, num)):
         if p is None:
             continue
-        c = reduce_poly_relations(p, budget)
+        c = reduce_poly_relations(p, budget, companions=(other,) if other is not None else ())
         if reducer is not None:
             c = reducer.reduce(c, budget)
         parts.append(c)
@@ -66,9 +66,9 @@ def display_coef(coef: Coef, conditions=None, budget: Budget | None = None) -> C
     if c is None or c.expr is not None:
         return c
     num, den = c._parts()
-    num = merge_half_angles(num, budget)
+    num = shortest_display(num, budget)
     if den is not None:
-        return num / merge_half_angles(den, budget)
+        return num / shortest_display(den, budget)
     return num
 
 

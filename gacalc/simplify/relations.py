@@ -78,9 +78,17 @@ def _multiple_angle(c: Coef, s: Coef, m: int):
     return cos_cur, sin_cur
 
 
-def _to_base_angles(p, budget):
-    """Rewrite every trig family of p over its base angle.  Returns a Coef."""
+def _to_base_angles(p, budget, companions=()):
+    """Rewrite every trig family of p over its base angle.  Returns a Coef.
+
+    ``companions`` are polynomials whose angles count too (the other half of a fraction),
+    so that numerator and denominator share a base angle and can cancel."""
     fams = _families(p)
+    for other in companions:
+        for u, by_q in _families(REGISTRY.lift(other)).items():
+            if u in fams:
+                for q, kinds in by_q.items():
+                    fams[u].setdefault(q, {})
     substitutions = {}
     for u, by_q in fams.items():
         if len(by_q) == 1:
@@ -138,7 +146,7 @@ def _reduce_powers(p, budget) -> Coef:
         degs = num.degrees()
         if all(degs[pos] < rules[e][0] for pos, e in zip(positions, rules)):
             break
-        gens = REGISTRY.ctx.gens()
+        gens = REGISTRY.gens
         plist = [(pos, rules[e]) for pos, e in zip(positions, rules)]
 
         def image(key):
@@ -162,12 +170,12 @@ def _reduce_powers(p, budget) -> Coef:
     return current
 
 
-def reduce_poly_relations(p, budget=None) -> Coef:
+def reduce_poly_relations(p, budget=None, companions=()) -> Coef:
     """Canonical form of a polynomial modulo the generator relations."""
     p = REGISTRY.lift(p)
     if p.is_constant():
         return Coef(p)
-    c = _to_base_angles(p, budget)
+    c = _to_base_angles(p, budget, companions)
     out = _reduce_powers(REGISTRY.lift(c.num), budget)
     if c.den is not None:
         out = out / Coef(REGISTRY.lift(c.den))
@@ -178,15 +186,17 @@ def _term_count(c: Coef) -> int:
     return len(c.num) + (len(c.den) if c.den is not None else 0)
 
 
-def merge_half_angles(p, budget=None) -> Coef:
-    """For display: products of half angles become full angles when that is not longer.
+def merge_half_angles(p, budget=None):
+    """For display: products of half angles become full angles.  Returns (Coef, merged).
 
     Input is in reduced form (each family over one angle, sin at most linear).  The term
     c^a s^b becomes, with C = cos 2x, S = sin 2x: c^2 -> (1 + C)/2, c s -> S/2, keeping one
-    c or s for odd total degree.  Accepted when it has fewer terms, or as many and the
-    half angle disappears.
+    c or s for odd total degree.  Accepted when the half angle disappears and it was a
+    half angle (q with an even denominator: the rotor sandwich's theta/2), or when the
+    result is strictly shorter.  ``merged`` tells whether a half angle was merged away.
     """
     current = Coef(REGISTRY.lift(p))
+    merged_half = False
     for _ in range(MAX_PASSES):
         num = REGISTRY.lift(current.num)
         fams = _families(num)
@@ -199,7 +209,7 @@ def merge_half_angles(p, budget=None) -> Coef:
             s_pos = kinds.get("sin")
             C, S = trig("cos", 2 * q * u), trig("sin", 2 * q * u)
             num = REGISTRY.lift(num)
-            gens = REGISTRY.ctx.gens()
+            gens = REGISTRY.gens
             positions = [pos for pos in (c_pos, s_pos) if pos is not None]
             half = (Coef.constant(1) + C) * Coef.constant(sympy.Rational(1, 2))
 
@@ -223,15 +233,16 @@ def merge_half_angles(p, budget=None) -> Coef:
 
             candidate = _rewrite(num, positions, image, budget)
             cand_num = REGISTRY.lift(candidate.num)
-            still_half = any(cand_num.degrees()[pos] > 0 for pos in positions)
-            before, after = len(num), len(cand_num)
-            if after < before or (after == before and not still_half):
+            gone = not any(cand_num.degrees()[pos] > 0 for pos in positions)
+            is_half = q.q % 2 == 0
+            if len(cand_num) < len(num) or (gone and is_half):
                 num = cand_num
                 changed = True
+                merged_half = merged_half or (gone and is_half)
         current = Coef(num)
         if not changed:
             break
-    return current
+    return current, merged_half
 
 
 def has_opaque_generators(c: Coef) -> bool:
@@ -247,3 +258,36 @@ def has_opaque_generators(c: Coef) -> bool:
     if len(roots) > 1 or any(r.root[0].is_constant() for r in roots):
         return True
     return False
+
+
+def sine_form(p, budget=None) -> Coef:
+    """The reduced form written the other way round: cos^2 -> 1 - sin^2 in every family."""
+    current = Coef(REGISTRY.lift(p))
+    num = REGISTRY.lift(current.num)
+    for u, by_q in _families(num).items():
+        for q, kinds in by_q.items():
+            c_pos = kinds.get("cos")
+            if c_pos is None or num.degrees()[c_pos] < 2:
+                continue
+            s = trig("sin", q * u)
+            num = REGISTRY.lift(num)
+            gens = REGISTRY.gens
+            one_minus_s2 = Coef.constant(1) - s * s
+
+            def image(key, c_pos=c_pos, gens=gens, one_minus_s2=one_minus_s2):
+                (a,) = key
+                out = one_minus_s2 ** (a // 2)
+                return out * Coef(gens[c_pos]) if a % 2 else out
+
+            num = REGISTRY.lift(_rewrite(num, [c_pos], image, budget).num)
+    return Coef(num)
+
+
+def shortest_display(p, budget=None) -> Coef:
+    """Half angles merged into full ones (the rotor sandwich's form); otherwise the shorter
+    of the cosine form and the sine form, ties going to the cosine form."""
+    merged, merged_half = merge_half_angles(p, budget)
+    if merged_half or not _families(REGISTRY.lift(p)):
+        return merged
+    alt = sine_form(merged.num, budget)
+    return alt if len(REGISTRY.lift(alt.num)) < len(REGISTRY.lift(merged.num)) else merged

@@ -1,0 +1,535 @@
+"""The table of built-in functions: name, arity, one-line help, a runnable example.
+
+Each implementation receives a CallContext (gacalc.language.evaluator) and the argument
+values.  The core modules are imported inside the function bodies, so importing this
+table (the token table does, for highlighting) stays cheap and never needs sympy.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Callable
+
+
+@dataclass(frozen=True)
+class Builtin:
+    name: str
+    min_args: int
+    max_args: int
+    signature: str
+    help: str
+    example: str
+    impl: Callable
+    category: str
+
+    def arity_text(self) -> str:
+        if self.min_args == self.max_args:
+            count = self.min_args
+            return f"{count} argument" + ("" if count == 1 else "s")
+        return f"{self.min_args} to {self.max_args} arguments"
+
+
+BUILTINS: dict[str, Builtin] = {}
+
+
+def builtin(signature: str, help: str, example: str, category: str,
+            min_args: int | None = None, max_args: int | None = None):
+    """Register an implementation; arity defaults to the count in the signature."""
+    name, _, rest = signature.partition("(")
+    params = [p.strip() for p in rest.rstrip(")").split(",") if p.strip()]
+    required = [p for p in params if not p.startswith("[")]
+
+    def register(function: Callable) -> Callable:
+        BUILTINS[name] = Builtin(
+            name=name,
+            min_args=len(required) if min_args is None else min_args,
+            max_args=len(params) if max_args is None else max_args,
+            signature=signature, help=help, example=example, impl=function,
+            category=category)
+        return function
+
+    return register
+
+
+def _core():
+    import gacalc.algebra as algebra
+
+    return algebra
+
+
+def _sympy():
+    import sympy
+
+    return sympy
+
+
+def _scalar_mv(x):
+    sympy = _sympy()
+    if isinstance(x, sympy.Basic) and x.has(sympy.zoo, sympy.nan, sympy.oo):
+        from .errors import GacalcMathError
+
+        raise GacalcMathError("the result is undefined (a pole or a division by zero)")
+    return _core().Multivector.scalar(x)
+
+
+def _rotors():
+    from gacalc.algebra import rotors
+
+    return rotors
+
+
+def _versors():
+    from gacalc.algebra import versors
+
+    return versors
+
+
+def _representations():
+    from gacalc.algebra import representations
+
+    return representations
+
+
+# Parts and involutions -------------------------------------------------------------
+@builtin("grade(A, [k])", "grade-k part of A; with one argument, the grade of a "
+         "homogeneous A", "grade(3 + e1 + e12, 2)", "parts")
+def _grade(ctx, a, k=None):
+    a = ctx.multivector(0)
+    if k is None:
+        grades = sorted(a.grades())
+        if not grades:
+            ctx.fail("0 has no grade", 0)
+        if len(grades) > 1:
+            listed = ", ".join(str(g) for g in grades[:-1]) + f" and {grades[-1]}"
+            ctx.fail(f"this value has grades {listed}: grade(A, k) picks one", 0)
+        return _scalar_mv(grades[0])
+    return a.grade(ctx.integer(1, 0, 3))
+
+
+@builtin("even(A)", "even part: grades 0 and 2", "even(1 + e1 + e12 + e123)", "parts")
+def _even(ctx, a):
+    return ctx.multivector(0).even()
+
+
+@builtin("odd(A)", "odd part: grades 1 and 3", "odd(1 + e1 + e12 + e123)", "parts")
+def _odd(ctx, a):
+    return ctx.multivector(0).odd()
+
+
+@builtin("component(A, blade)", "coefficient of a basis blade in A (blade such as e12)",
+         "component(3 e1 + 5 e12, e12)", "parts")
+def _component(ctx, a, blade):
+    a = ctx.multivector(0)
+    b = ctx.multivector(1)
+    items = b.items()
+    sympy = _sympy()
+    if len(items) != 1 or items[0][1] not in (sympy.Integer(1), sympy.Integer(-1)):
+        ctx.fail("the second argument must be a basis blade such as e1 or e12", 1)
+    index, sign = items[0]
+    return _scalar_mv(a[index] * sign)
+
+
+@builtin("rev(A)", "reverse (also written A~): reverses the order of vector factors",
+         "rev(e1 e2)", "involutions")
+def _rev(ctx, a):
+    return ctx.multivector(0).rev()
+
+
+@builtin("involute(A)", "grade involution: negates the odd grades", "involute(1 + e1 + e12)",
+         "involutions")
+def _involute(ctx, a):
+    return ctx.multivector(0).involute()
+
+
+@builtin("conjugate(A)", "Clifford conjugate: reverse and grade involution together",
+         "conjugate(1 + e1 + e12 + e123)", "involutions")
+def _conjugate(ctx, a):
+    return ctx.multivector(0).conjugate()
+
+
+@builtin("dual(A)", "dual: A I^-1", "dual(e1)", "involutions")
+def _dual(ctx, a):
+    return ctx.multivector(0).dual()
+
+
+@builtin("undual(A)", "inverse of dual: A I", "undual(e23)", "involutions")
+def _undual(ctx, a):
+    return ctx.multivector(0).undual()
+
+
+# Norms and inverses ---------------------------------------------------------------
+@builtin("norm(A)", "norm: sqrt(<A A~>)", "norm(3 e1 + 4 e2)", "norms")
+def _norm(ctx, a):
+    return _scalar_mv(ctx.multivector(0).norm())
+
+
+@builtin("norm2(A)", "squared norm: <A A~>", "norm2(3 e1 + 4 e2)", "norms")
+def _norm2(ctx, a):
+    return _scalar_mv(ctx.multivector(0).norm2())
+
+
+@builtin("inverse(A)", "inverse of any invertible multivector (also A^-1)",
+         "inverse(1 + e1 + e12)", "norms")
+def _inverse(ctx, a):
+    return ctx.inverse(ctx.multivector(0), 0)
+
+
+# Products --------------------------------------------------------------------------
+@builtin("cross(a, b)", "Gibbs cross product of two vectors: dual(a /\\ b)",
+         "cross(e1, e2)", "products")
+def _cross(ctx, a, b):
+    return _core().cross(ctx.vector(0), ctx.vector(1))
+
+
+@builtin("comm(A, B)", "commutator product (A B - B A)/2", "comm(e12, e1)", "products")
+def _comm(ctx, a, b):
+    return ctx.multivector(0).comm(ctx.multivector(1))
+
+
+@builtin("anticomm(A, B)", "anticommutator product (A B + B A)/2", "anticomm(e1, e1 + e2)",
+         "products")
+def _anticomm(ctx, a, b):
+    return ctx.multivector(0).anticomm(ctx.multivector(1))
+
+
+# Versors and rotors ----------------------------------------------------------------
+@builtin("project(x, B)", "projection of x onto the blade B: (x _| B) B^-1",
+         "project(e1 + e3, e12)", "versors")
+def _project(ctx, x, b):
+    return _versors().project(ctx.multivector(0), ctx.multivector(1))
+
+
+@builtin("reject(x, B)", "rejection of x from the blade B: x minus its projection",
+         "reject(e1 + e3, e12)", "versors")
+def _reject(ctx, x, b):
+    return _versors().reject(ctx.multivector(0), ctx.multivector(1))
+
+
+@builtin("reflect(X, n)", "reflection of X in the plane with normal vector n",
+         "reflect(e1 + e2, e1)", "versors")
+def _reflect(ctx, x, n):
+    return _versors().reflect(ctx.multivector(0), ctx.vector(1))
+
+
+@builtin("apply(V, X)", "versor V applied to X: V X V^-1, with the grade involution of X "
+         "for odd V", "apply(e1, e2 + e1)", "versors")
+def _apply(ctx, v, x):
+    return _versors().apply_versor(ctx.multivector(0), ctx.multivector(1))
+
+
+@builtin("rotor(B, theta)", "rotor exp(-B theta/2) for a unit bivector B or a unit axis "
+         "vector n (plane n I); rotor(a, b) turns unit vector a into b",
+         "rotor(e12, pi/2)", "rotors")
+def _rotor(ctx, first, second):
+    first = ctx.multivector(0)
+    second = ctx.multivector(1)
+    if second.is_scalar() or second.is_zero():
+        return _rotors().rotor(first, second.scalar_part(), ctx.conditions())
+    if first.grades() == {1} and second.grades() == {1}:
+        rotor, arbitrary = _rotors().rotor_between(first, second, ctx.conditions())
+        if arbitrary:
+            ctx.note("the vectors are opposite: any plane containing them works; "
+                     "one was chosen")
+        return rotor
+    ctx.fail("the second argument must be an angle (a scalar) or, with a vector first, "
+             "a vector", 1)
+
+
+@builtin("rotate(R, x)", "rotation of x by the rotor R: R x R~", "rotate(rotor(e12, pi/2), e1)",
+         "rotors")
+def _rotate(ctx, r, x):
+    return _rotors().rotate(ctx.multivector(0), ctx.multivector(1), ctx.conditions())
+
+
+@builtin("angle(R)", "rotation angle of a rotor; angle(a, b) is the angle between vectors",
+         "angle(rotor(e12, pi/3))", "rotors", min_args=1, max_args=2)
+def _angle(ctx, r, b=None):
+    first = ctx.multivector(0)
+    if b is None:
+        return _scalar_mv(_rotors().rotor_angle(first, ctx.conditions()))
+    a, b = ctx.vector(0), ctx.vector(1)
+    sympy = _sympy()
+    cosine = a.scalar_product(b).scalar_part() / sympy.sqrt(a.norm2() * b.norm2())
+    return _scalar_mv(sympy.acos(cosine))
+
+
+@builtin("axis(R)", "unit rotation axis of a rotor (right-hand rule)",
+         "axis(rotor(e3, pi/2))", "rotors")
+def _axis(ctx, r):
+    return _rotors().rotor_axis(ctx.multivector(0), ctx.conditions())
+
+
+@builtin("plane(R)", "unit rotation plane (bivector) of a rotor", "plane(rotor(e12, pi/2))",
+         "rotors")
+def _plane(ctx, r):
+    return _rotors().rotor_plane(ctx.multivector(0), ctx.conditions())
+
+
+@builtin("power(R, q)", "rational power of a rotor: the rotation scaled by q",
+         "power(rotor(e12, pi/2), 1/2)", "rotors")
+def _power(ctx, r, q):
+    return _rotors().power(ctx.multivector(0), ctx.rational(1), ctx.conditions())
+
+
+@builtin("slerp(R1, R2, t)", "spherical interpolation between rotors along the shorter arc",
+         "slerp(1, rotor(e12, pi/2), 1/2)", "rotors")
+def _slerp(ctx, r1, r2, t):
+    return _rotors().slerp(ctx.multivector(0), ctx.multivector(1), ctx.scalar(2),
+                          ctx.conditions())
+
+
+# exp, log, sqrt: scalar functions on scalars, the algebra's on multivectors ---------
+@builtin("exp(A)", "exponential: of a scalar, or of any multivector (closed form)",
+         "exp(-e12 pi/4)", "functions")
+def _exp(ctx, a):
+    value = ctx.multivector(0)
+    if value.is_scalar() or value.is_zero():
+        return _scalar_mv(_sympy().exp(value.scalar_part()))
+    return _rotors().exp(value)
+
+
+@builtin("log(A)", "logarithm: of a scalar, or of a rotor (principal branch, a bivector)",
+         "log(rotor(e12, pi/3))", "functions")
+def _log(ctx, a):
+    value = ctx.multivector(0)
+    if value.is_scalar() or value.is_zero():
+        if value.is_zero():
+            ctx.fail("log(0) is undefined", 0)
+        return _scalar_mv(_sympy().log(value.scalar_part()))
+    return _rotors().log(value, ctx.conditions())
+
+
+@builtin("sqrt(A)", "square root: of a scalar, or of a rotor (half the rotation)",
+         "sqrt(rotor(e12, pi/2))", "functions")
+def _sqrt(ctx, a):
+    value = ctx.multivector(0)
+    if value.is_scalar() or value.is_zero():
+        return _scalar_mv(_sympy().sqrt(value.scalar_part()))
+    return _rotors().sqrt(value, ctx.conditions())
+
+
+def _scalar_function(name: str, sympy_name: str, help: str, example: str):
+    @builtin(f"{name}(x)", help, example, "scalars")
+    def implementation(ctx, x):
+        function = getattr(_sympy(), sympy_name)
+        return _scalar_mv(function(ctx.scalar(0)))
+
+    return implementation
+
+
+_scalar_function("sin", "sin", "sine of a scalar", "sin(pi/6)")
+_scalar_function("cos", "cos", "cosine of a scalar", "cos(pi/3)")
+_scalar_function("tan", "tan", "tangent of a scalar", "tan(pi/4)")
+_scalar_function("asin", "asin", "inverse sine of a scalar", "asin(1/2)")
+_scalar_function("acos", "acos", "inverse cosine of a scalar", "acos(1/2)")
+_scalar_function("atan", "atan", "inverse tangent of a scalar", "atan(1)")
+_scalar_function("sinh", "sinh", "hyperbolic sine of a scalar", "sinh(0)")
+_scalar_function("cosh", "cosh", "hyperbolic cosine of a scalar", "cosh(0)")
+_scalar_function("tanh", "tanh", "hyperbolic tangent of a scalar", "tanh(0)")
+_scalar_function("abs", "Abs", "absolute value of a scalar", "abs(-3/2)")
+
+
+@builtin("atan2(y, x)", "angle of the point (x, y) from the x axis, in (-pi, pi]",
+         "atan2(1, -1)", "scalars")
+def _atan2(ctx, y, x):
+    return _scalar_mv(_sympy().atan2(ctx.scalar(0), ctx.scalar(1)))
+
+
+# Representations ---------------------------------------------------------------------
+@builtin("matrix(R)", "3x3 rotation matrix of a rotor (acting on column vectors)",
+         "matrix(rotor(e12, pi/2))", "representations")
+def _matrix(ctx, r):
+    return _representations().rotation_matrix(ctx.multivector(0), ctx.conditions())
+
+
+@builtin("from_matrix(M)", "rotor of a 3x3 rotation matrix (a matrix value, or its nine "
+         "entries row by row)", "from_matrix(matrix(rotor(e12, pi/2)))", "representations",
+         min_args=1, max_args=9)
+def _from_matrix(ctx, *args):
+    matrix = ctx.matrix_argument(args, 3, 3, "from_matrix")
+    return _representations().from_rotation_matrix(matrix, ctx.conditions())
+
+
+@builtin("pauli(A)", "2x2 complex Pauli matrix of A (e1, e2, e3 -> sigma x, y, z; "
+         "I -> i)", "pauli(e1 + e12)", "representations")
+def _pauli(ctx, a):
+    return _representations().pauli(ctx.multivector(0))
+
+
+@builtin("from_pauli(M)", "multivector of a 2x2 complex matrix (a matrix value, or four "
+         "entries written with I as the imaginary unit)", "from_pauli(pauli(e1 + e12))",
+         "representations", min_args=1, max_args=4)
+def _from_pauli(ctx, *args):
+    matrix = ctx.matrix_argument(args, 2, 2, "from_pauli", complex_entries=True)
+    return _representations().from_pauli(matrix)
+
+
+@builtin("quaternion(R)", "Hamilton quaternion of an even multivector (i = -e23, "
+         "j = -e31, k = -e12)", "quaternion(rotor(e12, pi/2))", "representations")
+def _quaternion(ctx, a):
+    return _representations().quaternion(ctx.multivector(0))
+
+
+@builtin("from_quaternion(q)", "even multivector of a quaternion (a quaternion value, or "
+         "w, x, y, z)", "from_quaternion(0, 0, 0, 1)", "representations",
+         min_args=1, max_args=4)
+def _from_quaternion(ctx, *args):
+    representations = _representations()
+    if len(args) == 1:
+        return representations.from_quaternion(ctx.quaternion(0))
+    if len(args) != 4:
+        ctx.fail("from_quaternion takes a quaternion value or four scalars w, x, y, z")
+    from sympy.algebras.quaternion import Quaternion
+
+    w, x, y, z = (ctx.scalar(i) for i in range(4))
+    return representations.from_quaternion(Quaternion(w, x, y, z))
+
+
+# Symbols and numbers -------------------------------------------------------------
+@builtin("subs(A, t, value)", "A with the scalar symbol t replaced by a scalar value",
+         "subs(cos(t) e1, t, pi)", "symbols")
+def _subs(ctx, a, t, value):
+    expr = ctx.scalar(1)
+    sympy = _sympy()
+    if not isinstance(expr, sympy.Symbol):
+        ctx.fail("the second argument must be a scalar symbol such as t or a1", 1)
+    return ctx.multivector(0).subs({expr: ctx.scalar(2)})
+
+
+@builtin("numeric(A, [digits])", "floating-point approximation of A (15 digits by default)",
+         "numeric(rotor(e12, 1))", "symbols")
+def _numeric(ctx, a, digits=None):
+    places = 15 if digits is None else ctx.integer(1, 1, 1000)
+    value = ctx.multivector(0)
+    return value.evalf(places)
+
+
+
+
+@builtin("ln(x)", "natural logarithm of a scalar (log also accepts rotors)", "ln(exp(2))",
+         "scalars")
+def _ln(ctx, x):
+    value = ctx.scalar(0)
+    if value == 0:
+        ctx.fail("ln(0) is undefined", 0)
+    return _scalar_mv(_sympy().log(value))
+
+
+BUILTIN_NAMES: tuple[str, ...] = tuple(sorted(BUILTINS))
+
+
+# Help on statements and topics -------------------------------------------------------
+_OPERATORS_HELP = """\
+operators, loosest to tightest:
+  A + B   A - B                 sum, difference
+  A * B   A B   A / B           geometric product (also side by side), A B^-1
+  A /\\ B  A _| B  A |_ B  A . B outer product, left and right contraction, inner
+                                product (Unicode: ∧ ⌋ ⌊ ·); one level, tighter than the
+                                geometric product; mixing two of them needs parentheses
+  -A                            negation
+  A~  A^k  A^-1  A²             reverse (also †), integer power, inverse
+  <A>k  <A>                     grade-k part, scalar part
+  f(x, y)  ( ... )              call, grouping
+  example: a . b c is (a . b) c"""
+
+HELP_TOPICS: dict[str, tuple[str, str]] = {
+    "check": ("check an identity: check L == R [given C = D, ...]",
+              "check L == R [given C = D, ...]\n"
+              "  reports held, FAILED (with the simplified L - R) or undecided\n"
+              "  example: vector a, b; check a b == a . b + a /\\ b"),
+    "given": ("side conditions of one check", "check L == R given C = D, E = F\n"
+              "  example: vector a, b; check (a + b)^2 == a^2 + b^2 given a . b = 0"),
+    "assume": ("session-wide side conditions: assume C = D, ... / assume none",
+               "assume C = D, ...   adds conditions used by every later simplification\n"
+               "assume none         drops them (declaration conditions stay)\n"
+               "assume              lists the active conditions\n"
+               "  example: vector a, b; assume a . b = 0"),
+    "show": ("derived forms of a value: show EXPR [against B], show latex EXPR",
+             "show EXPR            the value's grades, norms and what it is (rotor, "
+             "blade, ...)\n"
+             "show EXPR against B  the same, relative to B\n"
+             "show latex EXPR      the report in LaTeX\n"
+             "  example: show rotor(e12, pi/3)"),
+    "against": ("compare a shown value with another: show EXPR against B",
+                "  example: show e1 + e2 against e12"),
+    "emit": ("code for a value: emit latex|python|numpy|c EXPR [as NAME] [to \"file\"]",
+             "emit latex EXPR          LaTeX\n"
+             "emit python EXPR as f    a Python function f\n"
+             "emit c EXPR to \"out.c\"   C code written to a file\n"
+             "  example: vector a, b; emit python a /\\ b as wedge"),
+    "as": ("the function name of emitted code", "  example: emit c a b as product"),
+    "to": ("the file emitted code is written to", "  example: emit c a b to \"ab.c\""),
+    "use": ("run the statements of a file: use \"file.gac\"",
+            "use \"file.gac\"  paths are relative to the file that uses them\n"
+            "  example: use \"mirrors.gac\""),
+    "save": ("save the session as a script: save \"file.gac\" [force]",
+             "save \"file.gac\"        writes a script that re-creates names, functions,\n"
+             "                       declarations and conditions; it overwrites only a\n"
+             "                       file saved by gacalc\n"
+             "save \"file.gac\" force  overwrites any file\n"
+             "  example: save \"session.gac\""),
+    "help": ("help, help NAME", "help        this overview\nhelp NAME   one function, "
+             "statement or topic (operators, names)\n  example: help rotor"),
+    "scalar": ("declare real scalar symbols: scalar t, u", "  example: scalar theta"),
+    "vector": ("declare symbolic vectors: vector a, b [unit]",
+               "vector a     a = a1*e1 + a2*e2 + a3*e3\n"
+               "vector n unit  adds the condition n1^2 + n2^2 + n3^2 = 1\n"
+               "  example: vector n unit"),
+    "bivector": ("declare symbolic bivectors: bivector B [unit]",
+                 "bivector B   B = B23*e23 + B31*e31 + B12*e12\n  example: bivector B unit"),
+    "multivector": ("declare general multivectors: multivector M",
+                    "multivector M   components M0 M1 M2 M3 M23 M31 M12 M123\n"
+                    "  example: multivector M"),
+    "unit": ("after a declaration: the declared values have norm 1",
+             "  example: vector n unit"),
+    "operators": ("operators and their precedence", _OPERATORS_HELP),
+    "names": ("names, numbers and symbols",
+              "names: a letter, then letters, digits and inner underscores (Greek letters\n"
+              "allowed: θ is theta). A name never assigned is a real scalar symbol.\n"
+              "Numbers are exact: 0.5 is 1/2; 2e1 is 2 times e1. Blades: e1, e2, e3, e12,\n"
+              "e123 (any index order: e21 = -e12); I is e123; pi; ans is the last result.\n"
+              "  example: x = 0.5 e1 + 2e2"),
+}
+_DECLARATION_HELP_ROTOR = ("declare a symbolic unit rotor: rotor R",
+                           "rotor R   R = R0 + R23*e23 + R31*e31 + R12*e12 with "
+                           "R0^2 + R23^2 + R31^2 + R12^2 = 1\n  example: rotor R")
+_OPERATOR_WORDS = {"/\\", "∧", "_|", "⌋", "|_", "⌊", ".", "·", "⋅", "~", "†", "^", "<",
+                   ">", "*", "+", "-", "/", "==", "="}
+
+
+def help_text(topic: str | None, functions: dict | None = None) -> str | None:
+    """The help text of a topic (None: the overview), or None when there is none."""
+    functions = functions or {}
+    if topic is None:
+        return _overview()
+    if topic in _OPERATOR_WORDS:
+        topic = "operators"
+    lines = []
+    if topic in BUILTINS:
+        function = BUILTINS[topic]
+        lines.append(f"{function.signature}  {function.help}\n  example: {function.example}")
+    if topic in functions:
+        lines.append(f"{functions[topic].text}  (your function)")
+    if topic == "rotor":
+        lines.append(_DECLARATION_HELP_ROTOR[1])
+    elif topic in HELP_TOPICS:
+        lines.append(HELP_TOPICS[topic][1])
+    return "\n".join(lines) if lines else None
+
+
+def _overview() -> str:
+    categories: dict[str, list[str]] = {}
+    for name in BUILTIN_NAMES:
+        categories.setdefault(BUILTINS[name].category, []).append(name)
+    lines = ["statements:",
+             "  EXPR   NAME = EXPR   f(x, y) = EXPR   (a trailing ';' hides the result)",
+             "  scalar | vector | bivector | rotor | multivector NAME, ... [unit]",
+             "  check L == R [given C = D, ...]    assume C = D, ... | assume none",
+             "  show [latex] EXPR [against B]      emit latex|python|numpy|c EXPR [as NAME] "
+             "[to \"file\"]",
+             "  use \"file\"   save \"file\" [force]   help [NAME]",
+             "functions:"]
+    for category, names in categories.items():
+        lines.append(f"  {category + ':':17}{', '.join(names)}")
+    lines.append("more: help operators, help names, help NAME")
+    return "\n".join(lines)

@@ -1,0 +1,616 @@
+"""Evaluation of expression trees to values, over a session state.
+
+Values are Multivectors (scalars are grade-0 multivectors), sympy matrices (from
+``matrix`` and ``pauli``) and sympy quaternions (from ``quaternion``).
+
+Names resolve, in order: parameters of the function being evaluated (lexical: a
+function body never sees its caller's parameters), the session's names, ``ans``, the
+constants ``pi`` and ``I`` and the basis blades ``e1 ... e123`` (any index string).  A
+name never assigned is a real scalar symbol; its first use adds a note once.
+
+``name(args)`` is a call when name is a function (built-in or user), a product when it
+is a value.  For a name that is neither, ``k(a + b)`` is a product with the new symbol
+k, except that a name written right against '(' that resembles a function name is an
+error with a suggestion ("did you mean sin?").
+"""
+
+from __future__ import annotations
+
+import difflib
+import math
+import re
+from dataclasses import dataclass, field
+
+import sympy
+
+from gacalc.algebra import AlgebraError, Multivector, NotInvertibleError, blade
+from gacalc.printing.text import describe_value, scalar_text
+
+from . import syntax as S
+from . import tokens as T
+from .builtins import BUILTINS
+from .errors import (GacalcError, GacalcLimitError, GacalcMathError, GacalcNameError,
+                     GacalcTypeError, Span)
+
+MAX_EXPONENT = 1000
+MAX_CALL_DEPTH = 40
+MAX_EVAL_DEPTH = 250
+MAX_RESULT_DIGITS = 4000     # Python refuses to print integers much longer
+
+_BLADE_NAME = re.compile(r"e[1-3]+\Z")
+_NOT_A_BLADE = re.compile(r"e[0-9]+\Z")
+_RUN_TOGETHER_BLADES = re.compile(r"(?:e[0-9]+){2,}\Z")
+_BLADE_PARTS = re.compile(r"e[0-9]+")
+_WEDGE_METHODS = {T.WEDGE: "outer", T.LCONTRACT: "lc", T.RCONTRACT: "rc", T.INNER: "inner"}
+_WEDGE_NAMES = {T.WEDGE: "outer product", T.LCONTRACT: "left contraction",
+                T.RCONTRACT: "right contraction", T.INNER: "inner product"}
+
+
+def symbol(name: str) -> sympy.Symbol:
+    """The real scalar symbol of a name (the same object the core uses for components)."""
+    return sympy.Symbol(name, real=True)
+
+
+@dataclass
+class UserFunction:
+    name: str
+    params: list[str]
+    body: S.Node
+    text: str           # the definition as written, for help and save
+
+
+@dataclass
+class Condition:
+    """A side condition: ``expr`` = 0 on the set where it holds; ``text`` for people."""
+
+    expr: object
+    text: str
+    origin: str = "assume"   # 'declaration', 'assume' or 'given'
+
+
+@dataclass
+class State:
+    """Everything a session remembers.  Copied before each statement, committed after."""
+
+    values: dict = field(default_factory=dict)
+    functions: dict = field(default_factory=dict)
+    declarations: dict = field(default_factory=dict)      # name -> kind
+    unit_names: set = field(default_factory=set)          # declared with 'unit'
+    facts: dict = field(default_factory=dict)             # name -> [Condition] of its symbols
+    assumptions: list = field(default_factory=list)       # [Condition] from assume
+    ans: object = None
+    known_symbols: set = field(default_factory=set)       # names already noted as symbols
+    log: list = field(default_factory=list)               # statement texts, for save
+
+    def copy(self) -> "State":
+        return State(dict(self.values), dict(self.functions), dict(self.declarations),
+                     set(self.unit_names), dict(self.facts), list(self.assumptions),
+                     self.ans, set(self.known_symbols), list(self.log))
+
+    def conditions(self) -> list:
+        out = []
+        for facts in self.facts.values():
+            out.extend(facts)
+        out.extend(self.assumptions)
+        return out
+
+
+def is_multivector(value) -> bool:
+    return isinstance(value, Multivector)
+
+
+def is_matrix(value) -> bool:
+    return isinstance(value, sympy.MatrixBase)
+
+
+def is_quaternion(value) -> bool:
+    from sympy.algebras.quaternion import Quaternion
+
+    return isinstance(value, Quaternion)
+
+
+class Evaluator:
+    """Evaluates expressions against a (scratch) State; collects notes."""
+
+    def __init__(self, state: State, extra_conditions: list | None = None):
+        self.state = state
+        self.extra_conditions = list(extra_conditions or ())
+        self.notes: list[tuple[str, Span | None]] = []
+        self.call_depth = 0
+        self.depth = 0
+
+    # Notes ----------------------------------------------------------------------
+    def note(self, text: str, span: Span | None = None):
+        if all(existing != text for existing, _ in self.notes):
+            self.notes.append((text, span))
+
+    # Entry ----------------------------------------------------------------------
+    def evaluate(self, node: S.Node, frame: dict | None = None):
+        self.depth += 1
+        try:
+            if self.depth > MAX_EVAL_DEPTH:
+                raise GacalcLimitError("expression nested too deeply to evaluate", node.span)
+            method = getattr(self, "_eval_" + type(node).__name__)
+            return method(node, frame)
+        except AlgebraError as error:
+            raise _math_error(error, node.span) from None
+        except ZeroDivisionError:
+            raise GacalcMathError("division by zero", node.span) from None
+        finally:
+            self.depth -= 1
+
+    # Leaves ---------------------------------------------------------------------
+    def _eval_Number(self, node: S.Number, frame):
+        value = node.value
+        return Multivector.scalar(sympy.Rational(value.numerator, value.denominator))
+
+    def _eval_Name(self, node: S.Name, frame):
+        return self.lookup(node.name, node.span, frame)
+
+    def lookup(self, name: str, span: Span, frame: dict | None):
+        if frame is not None and name in frame:
+            return frame[name]
+        state = self.state
+        if name in state.values:
+            return state.values[name]
+        if name == "ans":
+            if state.ans is None:
+                raise GacalcNameError("ans has no value yet: it holds the last result", span)
+            return state.ans
+        if name == "pi":
+            return Multivector.scalar(sympy.pi)
+        if name == "I":
+            return blade("123")
+        if _BLADE_NAME.match(name):
+            return blade(name[1:])
+        if _NOT_A_BLADE.match(name):
+            raise GacalcNameError(f"there is no {name} in Cl(3,0): the basis vectors are e1, "
+                                  "e2 and e3 (blades such as e12, e123)", span)
+        if _RUN_TOGETHER_BLADES.match(name):
+            raise GacalcNameError(f"{name} is not a blade name: write the factors apart "
+                                  f"({' '.join(_BLADE_PARTS.findall(name))}) or as one index "
+                                  "string such as e12", span)
+        if name in BUILTINS:
+            raise GacalcTypeError(f"{name} is a function: call it as "
+                                  f"{BUILTINS[name].signature}", span)
+        if name in state.functions:
+            params = ", ".join(state.functions[name].params)
+            raise GacalcTypeError(f"{name} is a function: call it as {name}({params})", span)
+        return self.new_symbol(name, span)
+
+    def new_symbol(self, name: str, span: Span | None):
+        if name not in self.state.known_symbols:
+            similar = difflib.get_close_matches(name, self._value_names(), n=1, cutoff=0.75)
+            self.state.known_symbols.add(name)
+            hint = f" (did you mean {similar[0]}?)" if similar else ""
+            self.note(f"{name} is a new scalar symbol{hint}", span)
+        return Multivector.scalar(symbol(name))
+
+    def _value_names(self):
+        return [name for name in self.state.values] + sorted(self.state.known_symbols)
+
+    # Sums and products ----------------------------------------------------------------
+    def _eval_Sum(self, node: S.Sum, frame):
+        total = self.evaluate(node.terms[0], frame)
+        for sign, term in zip(node.signs[1:], node.terms[1:]):
+            value = self.evaluate(term, frame)
+            total = self.add(total, value, sign, term.span)
+        return total
+
+    def add(self, left, right, sign: int, span: Span):
+        if is_multivector(left) and is_multivector(right):
+            return left + right if sign > 0 else left - right
+        if is_matrix(left) and is_matrix(right) and left.shape == right.shape:
+            return left + right if sign > 0 else left - right
+        if is_quaternion(left) and is_quaternion(right):
+            return left + right if sign > 0 else left - right
+        raise GacalcTypeError(f"cannot {'add' if sign > 0 else 'subtract'} "
+                              f"{describe_value(right)} {'to' if sign > 0 else 'from'} "
+                              f"{describe_value(left)}", span)
+
+    def _eval_Product(self, node: S.Product, frame):
+        total = self.evaluate(node.factors[0], frame)
+        for op, factor in zip(node.ops[1:], node.factors[1:]):
+            value = self.evaluate(factor, frame)
+            if op == "/":
+                total = self.divide(total, value, factor.span, node.span)
+            else:
+                total = self.multiply(total, value, factor.span)
+        return total
+
+    def multiply(self, left, right, span: Span):
+        if is_multivector(left) and is_multivector(right):
+            return left * right
+        left_scalar = _as_scalar(left)
+        right_scalar = _as_scalar(right)
+        if left_scalar is not None and not is_multivector(right):
+            return right * left_scalar if is_matrix(right) else _scale_quaternion(right, left_scalar)
+        if right_scalar is not None and not is_multivector(left):
+            return left * right_scalar if is_matrix(left) else _scale_quaternion(left, right_scalar)
+        if is_matrix(left) and is_matrix(right):
+            if left.cols != right.rows:
+                raise GacalcTypeError(f"cannot multiply {describe_value(left)} by "
+                                      f"{describe_value(right)}", span)
+            return left * right
+        if is_quaternion(left) and is_quaternion(right):
+            return left * right
+        raise GacalcTypeError(f"cannot multiply {describe_value(left)} by "
+                              f"{describe_value(right)}", span)
+
+    def divide(self, left, right, span: Span, whole: Span):
+        if is_multivector(right):
+            if right.is_zero():
+                raise GacalcMathError("division by zero", span)
+            if right.is_scalar():
+                if is_multivector(left):
+                    return left / right
+                return self.multiply(left, Multivector.scalar(1 / right.scalar_part()), span)
+            if not is_multivector(left):
+                raise GacalcTypeError(f"cannot divide {describe_value(left)} by a multivector",
+                                      span)
+            return left * self.inverse(right, span)
+        raise GacalcTypeError(f"cannot divide by {describe_value(right)}", span)
+
+    def inverse(self, value, span: Span):
+        """value^-1, noting the validity condition when it cannot be decided."""
+        if not is_multivector(value):
+            if is_matrix(value) and value.rows == value.cols:
+                if value.det() == 0:
+                    raise GacalcMathError("this matrix is not invertible (determinant 0)", span)
+                return value.inv()
+            raise GacalcTypeError(f"cannot invert {describe_value(value)}", span)
+        if value.is_zero():
+            raise GacalcMathError("division by zero: 0 has no inverse", span)
+        try:
+            result, condition = value.inverse_with_condition()
+        except NotInvertibleError as error:
+            raise _math_error(error, span) from None
+        if condition is not None:
+            self.note(f"the inverse is valid where {scalar_text(condition)} != 0", span)
+        return result
+
+    # Wedge family and unary operators ---------------------------------------------------
+    def _eval_Wedge(self, node: S.Wedge, frame):
+        values = [self.evaluate(operand, frame) for operand in node.operands]
+        for value, operand in zip(values, node.operands):
+            if not is_multivector(value):
+                raise GacalcTypeError(f"the {_WEDGE_NAMES[node.op]} needs multivectors, not "
+                                      f"{describe_value(value)}", operand.span)
+        method = _WEDGE_METHODS[node.op]
+        if node.op == T.LCONTRACT:          # a _| b _| C = a _| (b _| C)
+            result = values[-1]
+            for value in reversed(values[:-1]):
+                result = getattr(value, method)(result)
+            return result
+        result = values[0]
+        for value in values[1:]:
+            result = getattr(result, method)(value)
+        return result
+
+    def _eval_Negate(self, node: S.Negate, frame):
+        value = self.evaluate(node.operand, frame)
+        if is_quaternion(value):
+            return _scale_quaternion(value, -1)
+        return -value
+
+    def _eval_Reverse(self, node: S.Reverse, frame):
+        value = self.multivector(self.evaluate(node.operand, frame), node.operand.span,
+                                 "the reverse")
+        return value.rev()
+
+    def _eval_GradePart(self, node: S.GradePart, frame):
+        value = self.multivector(self.evaluate(node.operand, frame), node.operand.span,
+                                 "a grade part")
+        return value.grade(0 if node.grade is None else node.grade)
+
+    def _eval_Power(self, node: S.Power, frame):
+        base = self.evaluate(node.base, frame)
+        exponent_value = self.evaluate(node.exponent, frame)
+        exponent = self.scalar(exponent_value, node.exponent.span, "an exponent")
+        return self.power(base, exponent, node)
+
+    def power(self, base, exponent, node: S.Power):
+        span = node.exponent.span
+        if exponent.is_Rational:
+            limit = MAX_EXPONENT
+            if abs(exponent.p) > limit or exponent.q > limit:
+                shown = str(exponent) if len(str(exponent)) <= 20 else "with so many digits"
+                raise GacalcLimitError(f"exponent {shown} is too large (the limit is "
+                                       f"{limit})", span)
+        elif exponent.is_Number:
+            raise GacalcTypeError("exponents are exact numbers or scalar symbols", span)
+        if is_multivector(base) and (base.is_scalar() or base.is_zero()):
+            scalar_base = base.scalar_part()
+            _check_result_digits(scalar_base, exponent, node.span)
+            if scalar_base == 0 and exponent.is_negative:
+                raise GacalcMathError("division by zero: 0 to a negative power", node.span)
+            result = sympy.Pow(scalar_base, exponent)
+            _check_finite(result, node.span)
+            return Multivector.scalar(result)
+        if not exponent.is_Rational:
+            raise GacalcTypeError("a multivector can only be raised to a number; symbolic "
+                                  "exponents are for scalars", span)
+        if is_matrix(base):
+            if not exponent.is_Integer or base.rows != base.cols:
+                raise GacalcTypeError("only square matrices, to integer powers", span)
+            return self.inverse(base, node.span) ** int(-exponent) if exponent < 0 \
+                else base ** int(exponent)
+        if is_quaternion(base):
+            if not exponent.is_Integer:
+                raise GacalcTypeError("quaternions take integer powers", span)
+            result = base ** abs(int(exponent))
+            return result.inverse() if exponent < 0 else result
+        if exponent.is_Integer:
+            n = int(exponent)
+            if n < 0:
+                return self.inverse(base, node.span) ** (-n)
+            return base ** n
+        if base.grades() <= {0, 2}:
+            from gacalc.algebra import rotors
+
+            active = self.state.conditions() + self.extra_conditions
+            conditions = tuple(c.expr for c in relevant_conditions(active, [base]))
+            return rotors.power(base, exponent, conditions)
+        raise GacalcTypeError("a fractional power needs a rotor (an even multivector)",
+                              node.base.span)
+
+    # Calls -------------------------------------------------------------------------
+    def _eval_Call(self, node: S.Call, frame):
+        name = node.name
+        if frame is not None and name in frame:
+            return self._as_product(node, frame[name], frame)
+        state = self.state
+        if name in state.values or name in ("ans", "pi", "I") or _BLADE_NAME.match(name):
+            return self._as_product(node, self.lookup(name, node.name_span, frame), frame)
+        if name in state.functions:
+            return self.call_user(state.functions[name], node, frame)
+        if name in BUILTINS:
+            return self.call_builtin(BUILTINS[name], node, frame)
+        if _NOT_A_BLADE.match(name):
+            self.lookup(name, node.name_span, frame)   # raises the blade error
+        if len(node.args) != 1:
+            raise self._unknown_function(node, force=True)
+        if not node.spaced and name not in state.known_symbols:
+            error = self._unknown_function(node, force=False)
+            if error is not None:
+                raise error
+        return self._as_product(node, self.new_symbol(name, node.name_span), frame)
+
+    def _unknown_function(self, node: S.Call, force: bool):
+        candidates = list(BUILTINS) + list(self.state.functions)
+        similar = difflib.get_close_matches(node.name, candidates, n=1, cutoff=0.6)
+        if similar:
+            return GacalcNameError(f"unknown function {node.name}", node.name_span,
+                                   hint=f"did you mean {similar[0]}?")
+        if force:
+            return GacalcNameError(f"unknown function {node.name}", node.name_span,
+                                   hint="help lists the functions")
+        return None
+
+    def _as_product(self, node: S.Call, value, frame):
+        if len(node.args) != 1:
+            raise GacalcTypeError(f"{node.name} is a value, not a function, so "
+                                  f"{node.name}(...) with {len(node.args)} arguments means "
+                                  "nothing", node.name_span)
+        return self.multiply(value, self.evaluate(node.args[0], frame), node.args[0].span)
+
+    def call_builtin(self, function, node: S.Call, frame):
+        count = len(node.args)
+        if not function.min_args <= count <= function.max_args:
+            raise GacalcTypeError(f"{function.name} takes {function.arity_text()}, not "
+                                  f"{count}: {function.signature}", node.span)
+        args = [self.evaluate(arg, frame) for arg in node.args]
+        context = CallContext(self, function, node, args)
+        try:
+            result = function.impl(context, *args)
+        except GacalcError as error:
+            raise error.with_span(node.span)
+        except NotInvertibleError as error:
+            raise _math_error(error, node.span) from None
+        except (AlgebraError, ValueError, NotImplementedError, ArithmeticError) as error:
+            # The core and sympy refuse some inputs with these; the messages are for users.
+            message = _exception_text(error)
+            if not message.startswith(function.name):
+                message = f"{function.name}: {message}"
+            raise GacalcMathError(message, node.span) from None
+        if is_multivector(result) and result.is_scalar():
+            _check_finite(result.scalar_part(), node.span)
+        return result
+
+    def call_user(self, function: UserFunction, node: S.Call, frame):
+        count = len(node.args)
+        if count != len(function.params):
+            raise GacalcTypeError(f"{function.name} takes {len(function.params)} argument"
+                                  f"{'' if len(function.params) == 1 else 's'}, not {count}: "
+                                  f"{function.name}({', '.join(function.params)})", node.span)
+        args = [self.evaluate(arg, frame) for arg in node.args]
+        if self.call_depth >= MAX_CALL_DEPTH:
+            raise GacalcLimitError(f"function calls nested more than {MAX_CALL_DEPTH} deep",
+                                   node.span)
+        self.call_depth += 1
+        try:
+            return self.evaluate(function.body, dict(zip(function.params, args)))
+        except GacalcError as error:
+            # Point at the call the user just wrote, naming the function.
+            if error.span is not None and error.span.source is not node.span.source \
+                    or error.span is not None and not (node.span.start <= error.span.start
+                                                       <= node.span.end):
+                error.message = f"in {function.name}: {error.message}"
+                error.span = node.span
+            raise
+        finally:
+            self.call_depth -= 1
+
+    # Argument checks shared with CallContext -------------------------------------------
+    def multivector(self, value, span: Span, what: str):
+        if not is_multivector(value):
+            raise GacalcTypeError(f"{what} needs a multivector, not {describe_value(value)}",
+                                  span)
+        return value
+
+    def scalar(self, value, span: Span, what: str):
+        if is_multivector(value) and (value.is_scalar() or value.is_zero()):
+            return value.scalar_part()
+        raise GacalcTypeError(f"{what} must be a scalar, not {describe_value(value)}", span)
+
+
+class CallContext:
+    """What a built-in sees: its arguments with checks that point at the right text."""
+
+    def __init__(self, evaluator: Evaluator, function, node: S.Call, args: list):
+        self.evaluator = evaluator
+        self.function = function
+        self.node = node
+        self.args = args
+
+    def span(self, index: int | None) -> Span:
+        if index is None or index >= len(self.node.args):
+            return self.node.span
+        return self.node.args[index].span
+
+    def fail(self, message: str, index: int | None = None):
+        raise GacalcTypeError(f"{self.function.name}: {message}", self.span(index))
+
+    def note(self, text: str):
+        self.evaluator.note(text, self.node.span)
+
+    def conditions(self) -> tuple:
+        """Active side conditions (sympy Exprs equal to zero) that concern the arguments."""
+        evaluator = self.evaluator
+        active = evaluator.state.conditions() + evaluator.extra_conditions
+        values = [value for value in self.args if is_multivector(value)]
+        return tuple(c.expr for c in relevant_conditions(active, values))
+
+    def _what(self, index: int) -> str:
+        ordinal = ("first", "second", "third", "fourth")[index] if index < 4 else f"#{index + 1}"
+        return f"the {ordinal} argument of {self.function.name}"
+
+    def multivector(self, index: int):
+        return self.evaluator.multivector(self.args[index], self.span(index), self._what(index))
+
+    def vector(self, index: int):
+        value = self.multivector(index)
+        if not value.grades() <= {1}:
+            raise GacalcTypeError(f"{self._what(index)} must be a vector, not "
+                                  f"{describe_value(value)}", self.span(index))
+        return value
+
+    def scalar(self, index: int):
+        return self.evaluator.scalar(self.args[index], self.span(index), self._what(index))
+
+    def rational(self, index: int):
+        value = self.scalar(index)
+        if not value.is_Rational:
+            raise GacalcTypeError(f"{self._what(index)} must be an exact number such as 1/2",
+                                  self.span(index))
+        return value
+
+    def integer(self, index: int, low: int, high: int) -> int:
+        value = self.scalar(index)
+        if not value.is_Integer or not low <= int(value) <= high:
+            raise GacalcTypeError(f"{self._what(index)} must be a whole number from {low} to "
+                                  f"{high}", self.span(index))
+        return int(value)
+
+    def inverse(self, value, index: int):
+        return self.evaluator.inverse(value, self.span(index))
+
+    def quaternion(self, index: int):
+        value = self.args[index]
+        if is_quaternion(value):
+            return value
+        raise GacalcTypeError(f"{self._what(index)} must be a quaternion value (from "
+                              f"quaternion(...)), not {describe_value(value)}", self.span(index))
+
+    def matrix_argument(self, args, rows: int, cols: int, name: str,
+                        complex_entries: bool = False):
+        """A matrix value, or rows*cols entries given one by one (row by row)."""
+        if len(args) == 1:
+            value = args[0]
+            if not is_matrix(value) or value.shape != (rows, cols):
+                self.fail(f"expected a {rows}x{cols} matrix value or its {rows * cols} entries",
+                          0)
+            return value
+        if len(args) != rows * cols:
+            self.fail(f"expected a {rows}x{cols} matrix value or its {rows * cols} entries")
+        entries = []
+        for index in range(len(args)):
+            value = self.multivector(index)
+            if complex_entries:
+                if not value.grades() <= {0, 3}:
+                    raise GacalcTypeError(f"{self._what(index)} must be a complex number "
+                                          "a + b I", self.span(index))
+                entries.append(value.scalar_part() + sympy.I * value["e123"])
+            else:
+                entries.append(self.scalar(index))
+        return sympy.Matrix(rows, cols, entries)
+
+
+# Helpers -----------------------------------------------------------------------------
+def relevant_conditions(conditions: list, values) -> list:
+    """The conditions connected to the values' symbols (directly or through each other);
+    conditions on unrelated symbols cannot matter and only cost time."""
+    if not conditions:
+        return []
+    if not isinstance(values, (list, tuple)):
+        values = [values]
+    symbols = set()
+    for value in values:
+        if is_multivector(value):
+            symbols |= value.free_symbols
+    chosen, remaining = [], list(conditions)
+    changed = True
+    while changed:
+        changed = False
+        for condition in list(remaining):
+            condition_symbols = condition.expr.free_symbols
+            if condition_symbols & symbols:
+                chosen.append(condition)
+                remaining.remove(condition)
+                symbols |= condition_symbols
+                changed = True
+    return chosen
+
+
+def _as_scalar(value):
+    if is_multivector(value) and (value.is_scalar() or value.is_zero()):
+        return value.scalar_part()
+    return None
+
+
+def _scale_quaternion(q, factor):
+    from sympy.algebras.quaternion import Quaternion
+
+    return Quaternion(q.a * factor, q.b * factor, q.c * factor, q.d * factor)
+
+
+def _check_result_digits(base, exponent, span: Span):
+    """Refuse exact powers whose numbers would be enormous (10^1000^1000...)."""
+    if not (base.is_Rational and exponent.is_Rational) or base == 0:
+        return
+    size = max(abs(base.p), base.q)
+    if size <= 1:
+        return
+    digits = abs(exponent.p) / exponent.q * math.log10(size)
+    if digits > MAX_RESULT_DIGITS:
+        raise GacalcLimitError(f"the result would have about {int(digits)} digits (the limit "
+                               f"is {MAX_RESULT_DIGITS})", span)
+
+
+def _check_finite(expr, span: Span):
+    if expr.has(sympy.zoo, sympy.nan, sympy.oo, -sympy.oo):
+        raise GacalcMathError("the result is undefined (a division by zero or a pole)", span)
+
+
+def _exception_text(error: Exception) -> str:
+    text = str(error).strip().splitlines()[0] if str(error).strip() else type(error).__name__
+    return text[:200]
+
+
+def _math_error(error: AlgebraError, span: Span) -> GacalcMathError:
+    message = _exception_text(error)
+    condition = getattr(error, "condition", None)
+    if isinstance(error, NotInvertibleError) and condition is not None \
+            and "not invertible" not in message:
+        message = f"not invertible: {scalar_text(condition)} = 0"
+    return GacalcMathError(message, span)

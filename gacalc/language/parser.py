@@ -1,0 +1,682 @@
+"""Hand-written precedence-climbing parser: tokens -> syntax tree (gacalc.language.syntax).
+
+Grammar, loosest to tightest (DESIGN.md, "The language")::
+
+    sum      := product (('+' | '-') product)*
+    product  := wedge (('*' | '/' | <juxtaposition>) wedge)*
+    wedge    := unary (OP unary)*        OP one of /\\ _| |_ . -- one operator per chain
+    unary    := ('-' | '+') unary | postfix
+    postfix  := primary ('~' | '^' exponent | superscript)*
+    exponent := ('-' | '+')? primary ('^' exponent)?
+    primary  := number | name | name '(' args ')' | '(' sum ')' | '<' sum '>' [digit]
+
+Juxtaposition applies when the next token can begin a primary (number, name, '(' or
+'<'), so ``a -b`` is a difference and ``2e1`` is 2 e1.  The grade digit of ``<A>k``
+must touch the '>' (``<A> 2`` is the scalar part times 2).
+
+Statements end at a newline or ';' (a ';' silences the result); see ``parse_statement``.
+"""
+
+from __future__ import annotations
+
+from typing import Iterator
+
+from . import syntax as S
+from . import tokens as T
+from .errors import GacalcLimitError, GacalcSyntaxError, Source, Span
+from .scanner import Token, scan, token_error
+
+MAX_STATEMENT_CHARS = 200_000
+MAX_DEPTH = 100
+MAX_NUMBER_DIGITS = 1000
+
+_WEDGE_KINDS = (T.WEDGE, T.LCONTRACT, T.RCONTRACT, T.INNER)
+_PRIMARY_START = frozenset(T.NAME_KINDS | {T.NUMBER, T.LPAREN, T.LANGLE})
+_STATEMENT_END = frozenset({T.NEWLINE, T.SEMICOLON, T.EOF})
+
+_DESCRIPTIONS = {
+    T.EOF: "the end of the input", T.NEWLINE: "the end of the line",
+    T.SEMICOLON: "';'", T.STRING: "a string",
+}
+
+
+def describe(token: Token) -> str:
+    if token.kind in _DESCRIPTIONS:
+        return _DESCRIPTIONS[token.kind]
+    if token.kind == T.NUMBER:
+        return f"the number {token.text}"
+    if token.kind in T.NAME_KINDS:
+        return f"'{token.text}'"
+    return f"'{token.text}'"
+
+
+class _StatementParser:
+    """Parses the tokens of one statement (terminator excluded)."""
+
+    def __init__(self, tokens: list[Token], terminator: Token):
+        self.tokens = tokens
+        self.terminator = terminator
+        self.position = 0
+        self.depth = 0
+
+    # Token access -------------------------------------------------------------
+    def peek(self, offset: int = 0) -> Token:
+        index = self.position + offset
+        return self.tokens[index] if index < len(self.tokens) else self.terminator
+
+    def advance(self) -> Token:
+        token = self.peek()
+        if self.position < len(self.tokens):
+            self.position += 1
+        return token
+
+    def at_end(self) -> bool:
+        return self.position >= len(self.tokens)
+
+    def check(self, kind: str, value: str | None = None) -> bool:
+        token = self.peek()
+        return token.kind == kind and (value is None or token.value == value)
+
+    def previous(self) -> Token | None:
+        return self.tokens[self.position - 1] if self.position > 0 else None
+
+    def fail(self, message: str, span: Span | None = None, hint: str | None = None):
+        if span is None:
+            span = self.peek().span
+            before = self.previous()
+            if self.at_end() and before is not None:
+                # Point just after the last token rather than at a line that may be empty.
+                span = Span(before.span.source, before.span.end, before.span.end + 1)
+        raise GacalcSyntaxError(message, span, hint)
+
+    def expect(self, kind: str, message: str) -> Token:
+        if not self.check(kind):
+            self.fail(message)
+        return self.advance()
+
+    def span_from(self, start: Token) -> Span:
+        last = self.previous()
+        end = last.span.end if last is not None and last.span.end >= start.span.start \
+            else start.span.end
+        return Span(start.span.source, start.span.start, end)
+
+    def enter(self, token: Token):
+        self.depth += 1
+        if self.depth > MAX_DEPTH:
+            raise GacalcLimitError(
+                f"expression nested too deeply (more than {MAX_DEPTH} levels)", token.span)
+
+    def leave(self):
+        self.depth -= 1
+
+    # Expressions --------------------------------------------------------------
+    def expression(self) -> S.Node:
+        return self.parse_sum()
+
+    def parse_sum(self) -> S.Node:
+        start = self.peek()
+        first = self.parse_product()
+        terms, signs = [first], [1]
+        while self.check(T.PLUS) or self.check(T.MINUS):
+            sign = 1 if self.advance().kind == T.PLUS else -1
+            terms.append(self.parse_product())
+            signs.append(sign)
+        if len(terms) == 1:
+            return first
+        return S.Sum(self.span_from(start), terms, signs)
+
+    def parse_product(self) -> S.Node:
+        start = self.peek()
+        first = self.parse_wedge()
+        factors, ops = [first], [""]
+        while True:
+            token = self.peek()
+            if token.kind in (T.STAR, T.SLASH):
+                self.advance()
+                ops.append("*" if token.kind == T.STAR else "/")
+            elif token.kind in _PRIMARY_START:
+                if token.kind == T.NUMBER and self.previous().kind == T.NUMBER:
+                    self.fail(f"two numbers in a row: write {self.previous().text}*{token.text} "
+                              "for a product", token.span)
+                ops.append("")
+            else:
+                break
+            factors.append(self.parse_wedge())
+        if len(factors) == 1:
+            return first
+        return S.Product(self.span_from(start), factors, ops)
+
+    def parse_wedge(self) -> S.Node:
+        start = self.peek()
+        first = self.parse_unary()
+        if self.peek().kind not in _WEDGE_KINDS:
+            return first
+        op_token = self.peek()
+        operands = [first]
+        last_start = start
+        while self.peek().kind in _WEDGE_KINDS:
+            token = self.advance()
+            operand_start = self.peek()
+            operand = self.parse_unary()
+            if token.kind != op_token.kind:
+                self._mixed_operators(start, last_start, op_token, token, operand_start)
+            operands.append(operand)
+            last_start = operand_start
+        return S.Wedge(self.span_from(start), op_token.kind, operands)
+
+    def _mixed_operators(self, start, last_start, first_op, second_op, operand_start):
+        source = start.span.source
+        text = source.text
+        whole_left = text[start.span.start:second_op.span.start].strip()
+        chain_head = text[start.span.start:last_start.span.start].strip()
+        last_operand = text[last_start.span.start:second_op.span.start].strip()
+        new_operand = text[operand_start.span.start:self.previous().span.end].strip()
+        op = second_op.text
+        suggestion = (f"write ({whole_left}) {op} {new_operand} or "
+                      f"{chain_head} ({last_operand} {op} {new_operand})")
+        self.fail(f"'{first_op.text}' and '{op}' cannot be mixed without parentheses: "
+                  f"{suggestion}", second_op.span)
+
+    def parse_unary(self) -> S.Node:
+        token = self.peek()
+        if token.kind in (T.MINUS, T.PLUS):
+            self.advance()
+            self.enter(token)
+            operand = self.parse_unary()
+            self.leave()
+            if token.kind == T.PLUS:
+                return operand
+            return S.Negate(self.span_from(token), operand)
+        return self.parse_postfix()
+
+    def parse_postfix(self) -> S.Node:
+        start = self.peek()
+        node = self.parse_primary()
+        count = 0
+        while True:
+            token = self.peek()
+            if token.kind in (T.REVERSE, T.CARET, T.SUPERSCRIPT):
+                count += 1      # each postfix operator nests the tree one level deeper
+                if count + self.depth > MAX_DEPTH:
+                    raise GacalcLimitError(f"too many postfix operators in a row (more than "
+                                           f"{MAX_DEPTH})", token.span)
+            if token.kind == T.REVERSE:
+                self.advance()
+                node = S.Reverse(self.span_from(start), node)
+            elif token.kind == T.CARET:
+                self.advance()
+                exponent = self.parse_exponent(token)
+                node = S.Power(self.span_from(start), node, exponent)
+            elif token.kind == T.SUPERSCRIPT:
+                self.advance()
+                exponent = _integer_node(token.value, token.span)
+                node = S.Power(self.span_from(start), node, exponent)
+            else:
+                return node
+
+    def parse_exponent(self, caret: Token) -> S.Node:
+        self.enter(caret)
+        sign = None
+        if self.peek().kind in (T.MINUS, T.PLUS):
+            sign = self.advance()
+        if self.peek().kind not in _PRIMARY_START:
+            written = f"'^{sign.text}'" if sign is not None else "'^'"
+            self.fail(f"expected an exponent after {written}, found {describe(self.peek())}")
+        node = self._exponent_body(caret)
+        if sign is not None and sign.kind == T.MINUS:
+            node = S.Negate(self.span_from(sign), node)
+        self.leave()
+        return node
+
+    def _exponent_body(self, caret: Token) -> S.Node:
+        start = self.peek()
+        base = self.parse_primary()
+        if self.check(T.CARET):           # a^b^c is a^(b^c)
+            token = self.advance()
+            return S.Power(self.span_from(start), base, self.parse_exponent(token))
+        return base
+
+    def parse_primary(self) -> S.Node:
+        token = self.peek()
+        kind = token.kind
+        if kind == T.NUMBER:
+            self.advance()
+            if len(token.text) > MAX_NUMBER_DIGITS:
+                raise GacalcLimitError(f"number too long ({len(token.text)} digits; the limit "
+                                       f"is {MAX_NUMBER_DIGITS})", token.span)
+            return S.Number(token.span, _fraction(token.text), token.text)
+        if kind in T.NAME_KINDS:
+            self.advance()
+            if self.check(T.LPAREN):
+                return self.parse_call(token)
+            return S.Name(token.span, token.value)
+        if kind == T.LPAREN:
+            self.advance()
+            self.enter(token)
+            if self.check(T.RPAREN):
+                self.fail("empty parentheses: put an expression inside ( )")
+            inner = self.expression()
+            self._close(token, T.RPAREN, "')'")
+            self.leave()
+            return inner
+        if kind == T.LANGLE:
+            return self.parse_grade(token)
+        self._operand_expected(token)
+
+    def _operand_expected(self, token: Token):
+        before = self.previous()
+        if token.kind in (T.ERROR, T.UNTERMINATED_STRING):
+            raise token_error(token)
+        if token.kind == T.SUPERSCRIPT:
+            self.fail("a superscript exponent needs something before it to raise")
+        if token.kind == T.KEYWORD:
+            self.fail(f"'{token.text}' is a reserved word and cannot be used in an expression")
+        if token.kind == T.DECLARATION:
+            self.fail(f"'{token.text}' declares names and must start a statement: "
+                      f"{token.text} NAME")
+        if before is None:
+            self.fail(f"expected an expression, found {describe(token)}")
+        self.fail(f"expected an operand after '{before.text}', found {describe(token)}")
+
+    def _close(self, opener: Token, kind: str, written: str):
+        if self.check(kind):
+            self.advance()
+            return
+        token = self.peek()
+        if token.kind in _STATEMENT_END:
+            self.fail(f"'{opener.text}' is never closed: add {written}", opener.span)
+        if token.kind in (T.ERROR, T.UNTERMINATED_STRING):
+            raise token_error(token)
+        self.fail(f"expected {written} to close the '{opener.text}' at "
+                  f"{opener.span.line}:{opener.span.column}, found {describe(token)}")
+
+    def parse_grade(self, opener: Token) -> S.Node:
+        self.advance()
+        self.enter(opener)
+        if self.check(T.RANGLE):
+            self.fail("empty grade brackets: write <A> or <A>k")
+        inner = self.expression()
+        close = self.peek()
+        self._close(opener, T.RANGLE, "'>'")
+        self.leave()
+        grade = None
+        after = self.peek()
+        if after.kind == T.NUMBER and after.span.start == close.span.end:
+            self.advance()
+            if not after.text.isdigit() or int(after.text) > 3:
+                self.fail(f"<A>{after.text}: a grade in Cl(3,0) is 0, 1, 2 or 3", after.span)
+            grade = int(after.text)
+        return S.GradePart(self.span_from(opener), inner, grade)
+
+    def parse_call(self, name: Token) -> S.Node:
+        opener = self.advance()
+        self.enter(opener)
+        args = []
+        if not self.check(T.RPAREN):
+            while True:
+                if self.check(T.COMMA):
+                    self.fail("missing argument before ','")
+                args.append(self.expression())
+                if self.check(T.COMMA):
+                    self.advance()
+                    if self.check(T.RPAREN):
+                        self.fail("missing argument after ','")
+                    continue
+                break
+        self._close(opener, T.RPAREN, "')'")
+        self.leave()
+        spaced = opener.span.start > name.span.end
+        return S.Call(self.span_from(name), name.value, name.span, args, spaced)
+
+    # Statements ---------------------------------------------------------------
+    def parse_statement(self) -> S.Statement:
+        first = self.peek()
+        if first.kind == T.KEYWORD:
+            handler = getattr(self, f"_statement_{first.value}", None)
+            if handler is None:
+                self.fail(f"'{first.text}' cannot start a statement")
+            statement = handler()
+        elif first.kind == T.DECLARATION:
+            statement = self._declaration()
+        elif first.is_name and self.peek(1).kind == T.EQUALS:
+            statement = self._assignment()
+        elif first.is_name and self.peek(1).kind == T.LPAREN and self._is_definition():
+            statement = self._definition()
+        else:
+            expr = self.expression()
+            statement = S.ExpressionStatement(self.span_from(first), expr)
+        if not self.at_end():
+            self._trailing(self.peek())
+        statement.span = self.span_from(first)
+        statement.silent = self.terminator.kind == T.SEMICOLON
+        return statement
+
+    def _trailing(self, token: Token):
+        kind = token.kind
+        if kind in (T.ERROR, T.UNTERMINATED_STRING):
+            raise token_error(token)
+        if kind == T.RPAREN:
+            self.fail("unmatched ')'")
+        if kind == T.RANGLE:
+            self.fail("unmatched '>'")
+        if kind == T.EQUALS:
+            self.fail("only a name or a function head f(x, ...) can be assigned",
+                      hint="to compare two values write check L == R")
+        if kind == T.EQEQ:
+            self.fail("'==' belongs in a check statement: check L == R")
+        if kind == T.COMMA:
+            self.fail("unexpected ','")
+        if kind in (T.KEYWORD, T.DECLARATION):
+            self.fail(f"unexpected '{token.text}' here")
+        if kind == T.STRING:
+            self.fail("unexpected string: strings are paths for use, save and emit ... to")
+        self.fail(f"unexpected {describe(token)}")
+
+    def _new_name(self, token: Token, what: str) -> str:
+        """Check that a token can be bound as a user name."""
+        if token.kind == T.BUILTIN:
+            self.fail(f"'{token.text}' is a built-in function; choose another name for the "
+                      f"{what}", token.span)
+        if token.kind == T.BLADE:
+            self.fail(f"'{token.text}' is a basis blade; choose another name for the {what}",
+                      token.span)
+        if token.kind == T.CONSTANT:
+            self.fail(f"'{token.text}' is a constant; choose another name for the {what}",
+                      token.span)
+        if token.kind in (T.KEYWORD, T.DECLARATION):
+            self.fail(f"'{token.text}' is a reserved word; choose another name for the {what}",
+                      token.span)
+        if token.kind not in T.NAME_KINDS:
+            self.fail(f"expected a name for the {what}, found {describe(token)}", token.span)
+        if token.value == "ans":
+            self.fail("'ans' is set by gacalc to the last result; choose another name",
+                      token.span)
+        return token.value
+
+    def _assignment(self) -> S.Statement:
+        name = self.advance()
+        value = self._new_name(name, "value")
+        self.advance()  # '='
+        if self.at_end():
+            self.fail(f"expected a value after '{name.text} ='")
+        expr = self.expression()
+        return S.Assign(self.span_from(name), value, name.span, expr)
+
+    def _is_definition(self) -> bool:
+        depth = 0
+        for index in range(self.position + 1, len(self.tokens)):
+            kind = self.tokens[index].kind
+            if kind == T.LPAREN:
+                depth += 1
+            elif kind == T.RPAREN:
+                depth -= 1
+                if depth == 0:
+                    following = self.tokens[index + 1] if index + 1 < len(self.tokens) else None
+                    return following is not None and following.kind == T.EQUALS
+        return False
+
+    def _definition(self) -> S.Statement:
+        name = self.advance()
+        function = self._new_name(name, "function")
+        self.advance()  # '('
+        params: list[S.Param] = []
+        seen = set()
+        while not self.check(T.RPAREN):
+            token = self.advance()
+            if token.kind == T.RPAREN or token.kind in _STATEMENT_END:
+                break
+            if not token.is_name or self.peek().kind not in (T.COMMA, T.RPAREN):
+                self.fail(f"the parameters of {function}(...) must be plain names",
+                          token.span)
+            param = self._new_name(token, "parameter")
+            if param in seen:
+                self.fail(f"parameter '{param}' appears twice", token.span)
+            seen.add(param)
+            params.append(S.Param(param, token.span))
+            if self.check(T.COMMA):
+                self.advance()
+                if self.check(T.RPAREN):
+                    self.fail("missing parameter after ','")
+        self.advance()  # ')'
+        self.advance()  # '='
+        if self.at_end():
+            self.fail(f"expected the body of {function}(...) after '='")
+        body = self.expression()
+        return S.FunctionDef(self.span_from(name), function, name.span, params, body)
+
+    def _declaration(self) -> S.Statement:
+        keyword = self.advance()
+        names: list[S.Param] = []
+        unit = False
+        while True:
+            token = self.peek()
+            if token.kind in _STATEMENT_END:
+                self.fail(f"expected a name after '{self.previous().text}'")
+            self.advance()
+            names.append(S.Param(self._new_name(token, keyword.value), token.span))
+            if self.check(T.COMMA):
+                self.advance()
+                continue
+            if self.check(T.NAME, "unit"):
+                self.advance()
+                unit = True
+            if not self.at_end():
+                following = self.peek()
+                if following.is_name:
+                    self.fail(f"separate the names with commas: {keyword.value} "
+                              f"{token.text}, {following.text}", following.span)
+                self._trailing(following)
+            break
+        if len({param.name for param in names}) != len(names):
+            self.fail("a name is declared twice in the same statement", keyword.span)
+        return S.Declare(keyword.span, keyword.value, names, unit)
+
+    def _conditions(self, keyword: str) -> list[S.Condition]:
+        conditions = []
+        while True:
+            start = self.peek()
+            if start.kind in _STATEMENT_END:
+                self.fail(f"expected a condition L = R after '{self.previous().text}'")
+            left = self.expression()
+            if self.check(T.EQEQ):
+                self.fail("a condition is written with a single '=': L = R")
+            if not self.check(T.EQUALS):
+                if self.at_end():
+                    self.fail(f"a condition after '{keyword}' is written L = R")
+                self._trailing(self.peek())
+            self.advance()
+            if self.at_end():
+                self.fail("expected the right-hand side of the condition after '='")
+            right = self.expression()
+            conditions.append(S.Condition(self.span_from(start), left, right))
+            if self.check(T.COMMA):
+                self.advance()
+                continue
+            return conditions
+
+    def _statement_check(self) -> S.Statement:
+        keyword = self.advance()
+        if self.at_end():
+            self.fail("check needs an equation: check L == R")
+        left = self.expression()
+        if self.check(T.EQUALS):
+            self.fail("check compares with '==': check L == R")
+        if not self.check(T.EQEQ):
+            if self.at_end():
+                self.fail("check needs an equation: check L == R")
+            self._trailing(self.peek())
+        self.advance()
+        if self.at_end():
+            self.fail("expected the right-hand side after '=='")
+        right = self.expression()
+        given = []
+        if self.check(T.KEYWORD, "given"):
+            self.advance()
+            given = self._conditions("given")
+        return S.Check(keyword.span, left, right, given)
+
+    def _statement_given(self):
+        self.fail("'given' belongs after a check: check L == R given C = D")
+
+    def _statement_assume(self) -> S.Statement:
+        keyword = self.advance()
+        if self.at_end():
+            return S.Assume(keyword.span, [], False)
+        if self.check(T.NAME, "none") and self.peek(1).kind in _STATEMENT_END:
+            self.advance()
+            return S.Assume(keyword.span, [], True)
+        return S.Assume(keyword.span, self._conditions("assume"), False)
+
+    def _starts_operand(self, offset: int) -> bool:
+        return self.peek(offset).kind in _PRIMARY_START | {T.MINUS}
+
+    def _statement_show(self) -> S.Statement:
+        keyword = self.advance()
+        latex = False
+        if self.check(T.NAME, "latex") and self._starts_operand(1):
+            self.advance()
+            latex = True
+        if self.at_end():
+            self.fail("show needs a value: show EXPR")
+        expr = self.expression()
+        against = None
+        if self.check(T.KEYWORD, "against"):
+            self.advance()
+            if self.at_end():
+                self.fail("expected a value after 'against'")
+            against = self.expression()
+        return S.Show(keyword.span, expr, against, latex)
+
+    def _statement_emit(self) -> S.Statement:
+        keyword = self.advance()
+        target = self.peek()
+        if not (target.is_name and target.value in T.EMIT_TARGETS):
+            self.fail("emit needs a target: emit latex EXPR, emit python EXPR or emit c EXPR")
+        self.advance()
+        if self.at_end():
+            self.fail(f"emit {target.value} needs a value")
+        expr = self.expression()
+        as_name = path = path_span = None
+        if self.check(T.KEYWORD, "as"):
+            self.advance()
+            token = self.peek()
+            if token.kind != T.NAME:
+                self.fail("expected a plain name after 'as'")
+            self.advance()
+            as_name = token.value
+        if self.check(T.KEYWORD, "to"):
+            self.advance()
+            token = self.expect(T.STRING, 'expected a file name in quotes after \'to\': to "out.py"')
+            path, path_span = token.value, token.span
+        return S.Emit(keyword.span, target.value, expr, as_name, path, path_span)
+
+    def _path(self, statement: str) -> Token:
+        token = self.peek()
+        if token.kind == T.UNTERMINATED_STRING:
+            raise token_error(token)
+        if token.kind != T.STRING:
+            self.fail(f'{statement} needs a file name in double quotes: {statement} "file.gac"')
+        self.advance()
+        if not token.value.strip():
+            self.fail("the file name is empty", token.span)
+        return token
+
+    def _statement_use(self) -> S.Statement:
+        keyword = self.advance()
+        token = self._path("use")
+        return S.Use(keyword.span, token.value, token.span)
+
+    def _statement_save(self) -> S.Statement:
+        keyword = self.advance()
+        token = self._path("save")
+        force = False
+        if self.check(T.NAME, "force"):
+            self.advance()
+            force = True
+        return S.Save(keyword.span, token.value, token.span, force)
+
+    def _statement_help(self) -> S.Statement:
+        keyword = self.advance()
+        topic = None
+        if not self.at_end():
+            topic = self.advance().value
+        return S.Help(keyword.span, topic)
+
+    def _unexpected_keyword(self):
+        token = self.peek()
+        self.fail(f"'{token.text}' cannot start a statement")
+
+    _statement_against = _statement_as = _statement_to = _unexpected_keyword
+
+
+def _fraction(text: str):
+    from fractions import Fraction
+
+    return Fraction(text)
+
+
+def _integer_node(text: str, span: Span) -> S.Node:
+    if text.startswith("-"):
+        return S.Negate(span, S.Number(span, _fraction(text[1:]), text[1:]))
+    return S.Number(span, _fraction(text), text)
+
+
+def _check_tokens(tokens: list[Token], terminator: Token):
+    for token in tokens:
+        if token.kind in (T.ERROR, T.UNTERMINATED_STRING):
+            raise token_error(token)
+    if tokens:
+        length = tokens[-1].span.end - tokens[0].span.start
+        if length > MAX_STATEMENT_CHARS:
+            raise GacalcLimitError(
+                f"statement too long ({length} characters; the limit is "
+                f"{MAX_STATEMENT_CHARS})", Span(tokens[0].span.source, tokens[0].span.start,
+                                               tokens[0].span.end))
+
+
+def parse_statement_tokens(tokens: list[Token], terminator: Token) -> S.Statement:
+    _check_tokens(tokens, terminator)
+    return _StatementParser(tokens, terminator).parse_statement()
+
+
+def iter_statements(source: Source) -> Iterator[S.Statement]:
+    """Statements one at a time, so earlier ones can run before a later mistake."""
+    buffer: list[Token] = []
+    for token in scan(source):
+        if token.kind in _STATEMENT_END:
+            if buffer:
+                yield parse_statement_tokens(buffer, token)
+                buffer = []
+            if token.kind == T.EOF:
+                return
+        else:
+            buffer.append(token)
+
+
+def parse(text: str, filename: str | None = None) -> list[S.Statement]:
+    """All statements of a program (raises GacalcError at the first mistake)."""
+    return list(iter_statements(Source(text, filename)))
+
+
+def read_expression(text: str, filename: str | None = None) -> S.Node:
+    """A single expression (for tests and tools)."""
+    statements = parse(text, filename)
+    if len(statements) != 1 or not isinstance(statements[0], S.ExpressionStatement):
+        source = Source(text, filename)
+        raise GacalcSyntaxError("expected a single expression", Span(source, 0, len(text)))
+    return statements[0].expr
+
+
+def reading(text: str, unicode: bool = False) -> list[str]:
+    """How each expression in the text is read, fully parenthesised (for REPL echoes);
+    statements without an expression give their text unchanged."""
+    out = []
+    for statement in parse(text):
+        expr = getattr(statement, "expr", None)
+        if isinstance(statement, (S.ExpressionStatement, S.Assign)) and expr is not None:
+            shown = S.unparse(expr, unicode=unicode, parenthesize=True)
+            out.append(f"{statement.name} = {shown}" if isinstance(statement, S.Assign)
+                       else shown)
+        else:
+            out.append(" ".join(statement.span.text.split()))
+    return out

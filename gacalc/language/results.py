@@ -1,0 +1,216 @@
+"""Results of running gacalc statements (what Session.run returns, besides errors).
+
+Every result has ``kind`` ('value', 'check', 'note', 'declaration', 'show', 'emit',
+'help', 'file'), ``span`` / ``filename`` / ``line`` / ``column`` of the statement,
+``silent`` (the statement ended with ';'), ``text`` (in the session's display mode)
+and ``render(unicode=False)``.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from .errors import Span
+
+
+def is_multivector(value) -> bool:
+    return hasattr(value, "coefficient_texts")
+
+
+@dataclass
+class Result:
+    """Common part of every result: where it came from and how to show it."""
+
+    kind: str = field(init=False, default="result")
+    span: Span | None = field(default=None, kw_only=True, repr=False)
+    silent: bool = field(default=False, kw_only=True)
+    unicode: bool = field(default=False, kw_only=True, repr=False)
+    width: int = field(default=78, kw_only=True, repr=False)
+
+    @property
+    def filename(self) -> str | None:
+        return self.span.filename if self.span is not None else None
+
+    @property
+    def line(self) -> int | None:
+        return self.span.line if self.span is not None else None
+
+    @property
+    def column(self) -> int | None:
+        return self.span.column if self.span is not None else None
+
+    @property
+    def statement_text(self) -> str:
+        return " ".join(self.span.text.split()) if self.span is not None else ""
+
+    @property
+    def text(self) -> str:
+        return self.render(self.unicode)
+
+    def render(self, unicode: bool = False) -> str:   # pragma: no cover - overridden
+        raise NotImplementedError
+
+    def __str__(self) -> str:
+        return self.text
+
+
+@dataclass
+class ValueResult(Result):
+    """The value of an expression or an assignment (``name`` is set for assignments)."""
+
+    value: object = None
+    name: str | None = None
+    complete: bool = True
+
+    def __post_init__(self):
+        self.kind = "value"
+
+    def render(self, unicode: bool = False) -> str:
+        from gacalc.printing.text import value_text
+
+        if self.name is None:
+            return value_text(self.value, unicode, self.width)
+        head = f"{self.name} = "
+        body = value_text(self.value, unicode, self.width, indent=len(head))
+        if "\n" in body and not is_multivector(self.value):
+            return f"{self.name} =\n{body}"
+        return head + body
+
+    def _repr_latex_(self):
+        try:
+            from gacalc.export import latex_of
+        except ImportError:
+            return None
+        return f"$\\displaystyle {latex_of(self.value)}$"
+
+
+@dataclass
+class CheckResult(Result):
+    """outcome is 'holds', 'fails' or 'undecided'; ``difference`` is L - R simplified."""
+
+    outcome: str = "undecided"
+    difference: object = None
+    conditions: list = field(default_factory=list)   # texts of the conditions it used
+    complete: bool = True
+
+    def __post_init__(self):
+        self.kind = "check"
+
+    @property
+    def passed(self) -> bool:
+        return self.outcome == "holds"
+
+    def difference_text(self, unicode: bool = False) -> str:
+        from gacalc.printing.text import value_text
+
+        return value_text(self.difference, unicode, self.width - 8) \
+            if self.difference is not None else ""
+
+    def render(self, unicode: bool = False) -> str:
+        statement = self.statement_text
+        if self.outcome == "holds":
+            if self.conditions:
+                return f"held given {', '.join(self.conditions)}: {statement}"
+            return f"held: {statement}"
+        if self.outcome == "fails":
+            difference = self.difference_text(unicode).replace("\n", "\n      ")
+            given = f" (given {', '.join(self.conditions)})" if self.conditions else ""
+            return f"FAILED: {statement}{given}\n  L - R = {difference}"
+        return (f"undecided: {statement} (could not decide whether L - R is zero within the "
+                "time budget)")
+
+
+@dataclass
+class NoteResult(Result):
+    message: str = ""
+
+    def __post_init__(self):
+        self.kind = "note"
+
+    def render(self, unicode: bool = False) -> str:
+        return f"note: {self.message}"
+
+
+@dataclass
+class DeclarationResult(Result):
+    """A declaration: the symbolic values it created and the conditions it implies."""
+
+    declared_kind: str = ""
+    values: dict = field(default_factory=dict)        # name -> Multivector
+    conditions: list = field(default_factory=list)    # Condition
+
+    def __post_init__(self):
+        self.kind = "declaration"
+
+    def render(self, unicode: bool = False) -> str:
+        from gacalc.printing.text import value_text
+
+        lines = []
+        for name, value in self.values.items():
+            lines.append(f"{self.declared_kind} {name} = {value_text(value, unicode, 10**6)}")
+        for condition in self.conditions:
+            lines.append(f"  with {condition.text}")
+        return "\n".join(lines)
+
+
+@dataclass
+class ShowResult(Result):
+    """The derived-forms report of ``show`` (``report`` is gacalc.forms' object)."""
+
+    report: object = None
+    report_text: str = ""
+    latex: bool = False
+
+    def __post_init__(self):
+        self.kind = "show"
+
+    def render(self, unicode: bool = False) -> str:
+        to_text = getattr(self.report, "to_text", None)
+        if self.latex or not callable(to_text):
+            return self.report_text
+        return to_text(unicode=unicode)
+
+
+@dataclass
+class EmitResult(Result):
+    target: str = ""
+    code: str = ""
+    path: str | None = None
+
+    def __post_init__(self):
+        self.kind = "emit"
+
+    def render(self, unicode: bool = False) -> str:
+        if self.path is not None:
+            return f"wrote {self.target} to {self.path}"
+        return self.code
+
+
+@dataclass
+class HelpResult(Result):
+    help: str = ""
+
+    def __post_init__(self):
+        self.kind = "help"
+
+    def render(self, unicode: bool = False) -> str:
+        return self.help
+
+
+@dataclass
+class FileResult(Result):
+    """A file read by ``use`` or written by ``save``."""
+
+    action: str = ""          # 'used' or 'saved'
+    path: str = ""
+    count: int = 0
+
+    def __post_init__(self):
+        self.kind = "file"
+
+    def render(self, unicode: bool = False) -> str:
+        if self.action == "saved":
+            return f"saved {self.count} statement{'s' if self.count != 1 else ''} to {self.path}"
+        return f"used {self.path} ({self.count} statement{'s' if self.count != 1 else ''})"
+
+

@@ -1,0 +1,287 @@
+"""The script runner: runs gacalc text through a Session and prints what it gives.
+
+Each result is printed as the Session renders it; checks are tallied (held, failed,
+undecided); the first error of a file stops that file and is printed to stderr as
+``file:line:column: message`` with the source line and a caret.  When any check ran,
+a file's output ends with the line ``N passed, M failed`` (an undecided check counts
+as not passed).  Exit status: 0 all checks held, 1 a check did not hold, 2 an error,
+130 interrupted by Ctrl-C.
+
+This module knows nothing of parsing or printing values: the Session does both.
+"""
+
+from __future__ import annotations
+
+import datetime
+import os
+import sys
+from dataclasses import dataclass, field
+
+EXIT_OK = 0
+EXIT_CHECK_FAILED = 1
+EXIT_ERROR = 2
+EXIT_INTERRUPTED = 130   # the shell convention for a program stopped by SIGINT
+ECHO_INDENT = "    "     # results under an echoed script line
+
+
+# Terminal styling ----------------------------------------------------------------------
+class Style:
+    """ANSI colours for a terminal; every method is the identity when colour is off."""
+
+    _CODES = {"held": "32", "failed": "31;1", "undecided": "33", "error": "31",
+              "note": "36", "source": "2", "heading": "1"}
+
+    def __init__(self, color: bool):
+        self.color = color
+
+    def paint(self, role: str, text: str) -> str:
+        if not self.color or not text:
+            return text
+        return f"\x1b[{self._CODES[role]}m{text}\x1b[0m"
+
+    def first_line(self, role: str, text: str) -> str:
+        head, newline, rest = text.partition("\n")
+        return self.paint(role, head) + newline + rest
+
+
+def wants_color(stream, allowed: bool = True) -> bool:
+    """Colour only for a terminal, never when NO_COLOR is set (no-color.org convention)."""
+    if not allowed or os.environ.get("NO_COLOR"):
+        return False
+    if os.environ.get("TERM") == "dumb":
+        return False
+    isatty = getattr(stream, "isatty", None)
+    return bool(isatty and isatty())
+
+
+def stream_accepts_unicode(stream) -> bool:
+    encoding = (getattr(stream, "encoding", None) or "").lower().replace("-", "")
+    return encoding in ("utf8", "utf16", "utf32", "utf8sig")
+
+
+# Internal errors ------------------------------------------------------------------------
+def log_internal_error(error) -> str | None:
+    """Append an internal error's traceback to the state-directory log; its path or None."""
+    from gacalc import __version__
+    from gacalc.paths import ensure_parent, internal_error_log
+
+    path = internal_error_log()
+    if not ensure_parent(path):
+        return None
+    stamp = datetime.datetime.now().isoformat(timespec="seconds")
+    where = error.location_text() or "(no position)"
+    statement = ""
+    if getattr(error, "span", None) is not None:
+        statement = error.span.text
+    entry = (f"--- {stamp} gacalc {__version__} python {sys.version.split()[0]}\n"
+             f"{where}: {error.message}\nstatement: {statement}\n"
+             f"{getattr(error, 'traceback_text', '')}\n")
+    try:
+        with open(path, "a", encoding="utf-8") as handle:
+            handle.write(entry)
+    except OSError:
+        return None
+    return str(path)
+
+
+def error_text(error) -> str:
+    """An error as printed: position, message, source line and caret (one line if none)."""
+    text = error.caret_text()
+    if getattr(error, "kind", "") == "internal":
+        logged = log_internal_error(error)
+        text += ("\n  this is a bug in gacalc; the session is unchanged; details were "
+                 f"written to {logged}" if logged else
+                 "\n  this is a bug in gacalc; the session is unchanged")
+    return text
+
+
+# Tallies -------------------------------------------------------------------------------
+@dataclass
+class Tally:
+    passed: int = 0
+    failed: int = 0
+    undecided: int = 0
+    errors: int = 0
+    interrupted: bool = False
+    files: int = 0
+
+    @property
+    def checks(self) -> int:
+        return self.passed + self.failed + self.undecided
+
+    def add(self, other: "Tally"):
+        self.passed += other.passed
+        self.failed += other.failed
+        self.undecided += other.undecided
+        self.errors += other.errors
+        self.interrupted = self.interrupted or other.interrupted
+        self.files += other.files
+
+    def summary_lines(self) -> list[str]:
+        if not self.checks:
+            return []
+        lines = []
+        if self.undecided:
+            lines.append(f"({self.undecided} undecided within the time budget, counted as "
+                         "failed)")
+        lines.append(f"{self.passed} passed, {self.failed + self.undecided} failed")
+        return lines
+
+    def exit_status(self) -> int:
+        if self.interrupted:
+            return EXIT_INTERRUPTED
+        if self.errors:
+            return EXIT_ERROR
+        if self.failed or self.undecided:
+            return EXIT_CHECK_FAILED
+        return EXIT_OK
+
+
+# The runner ----------------------------------------------------------------------------
+@dataclass
+class RunOptions:
+    unicode: bool = False
+    color: bool = False
+    echo: bool = False          # print the script's own lines before their results
+    width: int = 78
+    budget: float | None = None
+
+
+@dataclass
+class _Echo:
+    """Prints the lines of the top-level script up to each statement as it runs."""
+
+    text: str
+    filename: str | None
+    printed: int = 0                       # lines printed so far
+    lines: list = field(default_factory=list)
+
+    def __post_init__(self):
+        self.lines = self.text.splitlines()
+
+    def owns(self, span) -> bool:
+        return (span is not None and span.source.filename == self.filename
+                and span.source.text == self.text)
+
+    def through(self, line: int) -> list[str]:
+        chunk = self.lines[self.printed:line]
+        self.printed = max(self.printed, line)
+        return chunk
+
+
+class ScriptRunner:
+    """Runs script text or files, printing results to ``out`` and errors to ``err``."""
+
+    def __init__(self, options: RunOptions | None = None, out=None, err=None):
+        self.options = options or RunOptions()
+        self.out = out if out is not None else sys.stdout
+        self.err = err if err is not None else sys.stderr
+        self.style = Style(self.options.color)
+
+    def new_session(self):
+        from gacalc.language import Session
+
+        return Session(unicode=self.options.unicode, budget=self.options.budget,
+                       width=self.options.width)
+
+    # Output ---------------------------------------------------------------------------
+    def _print(self, text: str = ""):
+        print(text, file=self.out)
+
+    def _print_error(self, text: str):
+        self.out.flush()
+        print(text, file=self.err)
+        self.err.flush()
+
+    def _print_result(self, result, tally: Tally, indent: str = ""):
+        style = self.style
+        if result.kind == "check":
+            # A check always reports, even after ';': its outcome is its whole point.
+            role = {"holds": "held", "fails": "failed"}.get(result.outcome, "undecided")
+            if role == "held":
+                tally.passed += 1
+            elif role == "failed":
+                tally.failed += 1
+            else:
+                tally.undecided += 1
+            text = style.first_line(role, result.text)
+        elif result.silent:
+            return
+        elif result.kind == "note":
+            text = style.paint("note", result.text)
+        else:
+            text = result.text
+        if indent:
+            text = "\n".join(indent + line for line in text.split("\n"))
+        self._print(text)
+
+    # Running --------------------------------------------------------------------------
+    def run_text(self, text: str, filename: str | None = None, session=None) -> Tally:
+        """Run one script; prints its results and, when checks ran, its summary line."""
+        from gacalc.language.errors import GacalcError
+
+        session = session if session is not None else self.new_session()
+        tally = Tally(files=1)
+        echo = _Echo(text, filename) if self.options.echo else None
+        try:
+            for result in session.iter_run(text, filename):
+                if isinstance(result, GacalcError):
+                    if result.kind == "interrupt":
+                        tally.interrupted = True
+                    else:
+                        tally.errors += 1
+                    self._print_error(self.style.first_line("error", error_text(result)))
+                    break
+                if echo is not None and echo.owns(result.span):
+                    end_line = result.span.source.line_column(result.span.end)[0]
+                    for line in echo.through(end_line):
+                        self._print(line)
+                self._print_result(result, tally, indent=ECHO_INDENT if echo else "")
+            else:
+                if echo is not None:
+                    for line in echo.through(len(echo.lines)):
+                        self._print(line)
+        except KeyboardInterrupt:
+            # Ctrl-C between statements (while parsing): the session is untouched.
+            tally.interrupted = True
+            self._print_error("interrupted")
+        if not tally.interrupted:
+            for line in tally.summary_lines():
+                self._print(line)
+        self.out.flush()
+        return tally
+
+    def run_file(self, path: str) -> Tally:
+        from gacalc.language.errors import GacalcFileError
+
+        try:
+            with open(path, encoding="utf-8") as handle:
+                text = handle.read()
+        except (OSError, UnicodeDecodeError) as error:
+            reason = getattr(error, "strerror", None) or str(error)
+            self._print_error(self.style.first_line(
+                "error", str(GacalcFileError(f"{path}: cannot read the script: {reason}"))))
+            return Tally(errors=1, files=1)
+        return self.run_text(text, path)
+
+    def run_files(self, paths: list[str], headings: bool | None = None,
+                  titles: dict | None = None) -> Tally:
+        """Each file in a fresh session; with several files, a heading for each (its
+        title, default the path) and a closing line over all of them."""
+        headings = len(paths) > 1 if headings is None else headings
+        titles = titles or {}
+        total = Tally()
+        for index, path in enumerate(paths):
+            if headings:
+                if index:
+                    self._print()
+                self._print(self.style.paint("heading", f"== {titles.get(path, path)} =="))
+            tally = self.run_file(path)
+            total.add(tally)
+            if tally.interrupted:
+                break
+        if len(paths) > 1 and total.checks and not total.interrupted:
+            self._print()
+            self._print(f"all {total.files} files: {total.passed} passed, "
+                        f"{total.failed + total.undecided} failed")
+        return total

@@ -1,0 +1,297 @@
+#!/usr/bin/env python3
+"""Benchmarks: gacalc against plain-sympy routes, run side by side in one process.
+
+Each case runs gacalc through ``Session.run`` (the user's own path, printed text included)
+and a baseline written with plain sympy, alternating A B A B with sympy's cache cleared
+between runs; medians are reported.  Lines printed (the last one is the summary):
+
+    ratio products k=K: X        chained products of k general symbolic multivectors
+    ratio rotor: X               R x R~ simplified under the unit condition
+    ratio script: X              200 identity checks through the script runner
+    startup: X × import sympy    whole-process time of `gacalc -e '1'`
+    latency median: X ms (...)   typical REPL statements through the Session API
+    memory: X × import sympy     peak RSS of running every demo script
+    min ratio: X                 the smallest product ratio for k = 3..5
+
+Usage: python scripts/bench.py [--quick]
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import random
+import statistics
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parent.parent
+sys.path.insert(0, str(ROOT))
+
+import sympy as sp  # noqa: E402
+from sympy.core.cache import clear_cache  # noqa: E402
+
+BASIS = ("1", "e1", "e2", "e3", "e23", "e31", "e12", "e123")
+SUFFIX = ("0", "1", "2", "3", "23", "31", "12", "123")
+
+
+# --------------------------------------------------------------------------- timing
+
+
+def timed(fn):
+    clear_cache()
+    t0 = time.perf_counter()
+    fn()
+    return time.perf_counter() - t0
+
+
+def side_by_side(a, b, repeats):
+    """Median seconds of a and b, run alternately."""
+    ta, tb = [], []
+    for _ in range(repeats):
+        ta.append(timed(a))
+        tb.append(timed(b))
+    return statistics.median(ta), statistics.median(tb)
+
+
+def new_session():
+    from gacalc.language.session import Session
+
+    return Session()
+
+
+def run_ok(session, text):
+    results = session.run(text)
+    for r in results:
+        if getattr(r, "error", None) is not None or type(r).__name__.endswith("Error"):
+            raise RuntimeError(f"gacalc failed on {text!r}: {r}")
+    return results
+
+
+# --------------------------------------------------------------------------- Pauli baseline
+
+S1 = sp.Matrix([[0, 1], [1, 0]])
+S2 = sp.Matrix([[0, -sp.I], [sp.I, 0]])
+S3 = sp.Matrix([[1, 0], [0, -1]])
+ID = sp.eye(2)
+PAULI_BASIS = (ID, S1, S2, S3, S2 * S3, S3 * S1, S1 * S2, sp.I * ID)
+
+
+def pauli_of(components):
+    m = sp.zeros(2, 2)
+    for c, b in zip(components, PAULI_BASIS):
+        m += c * b
+    return m
+
+
+def components_of_pauli(m):
+    """Back to the 8 real components: c_k = Re tr(B_k^-1 M) / 2 with real symbols."""
+    out = []
+    for b in PAULI_BASIS:
+        t = sp.expand((b.inv() * m).trace() / 2)
+        out.append(sp.expand(sp.re(t)))
+    return out
+
+
+def symbolic_components(name):
+    return [sp.Symbol(name + s, real=True) for s in SUFFIX]
+
+
+# --------------------------------------------------------------------------- cases
+
+
+def case_products(k, repeats):
+    names = [chr(ord("A") + i) for i in range(k)]
+    text = "multivector " + ", ".join(names) + "\n" + " ".join(names)
+
+    def ours():
+        s = new_session()
+        res = run_ok(s, text)
+        assert res[-1].text
+
+    def baseline():
+        m = pauli_of(symbolic_components(names[0]))
+        for n in names[1:]:
+            m = (m * pauli_of(symbolic_components(n))).applyfunc(sp.expand)
+        comps = components_of_pauli(m)
+        " + ".join(f"({c})*{b}" for c, b in zip(comps, BASIS))
+
+    return side_by_side(ours, baseline, repeats)
+
+
+def case_rotor(repeats):
+    text = "vector n unit\nvector x\nR = rotor(n, theta)\nR x R~"
+
+    def ours():
+        s = new_session()
+        res = run_ok(s, text)
+        assert "cos(theta)" in res[-1].text and "theta/2" not in res[-1].text
+
+    def baseline():
+        from sympy.algebras.quaternion import Quaternion
+
+        th = sp.Symbol("theta", real=True)
+        n1, n2, n3, x1, x2, x3 = sp.symbols("n1 n2 n3 x1 x2 x3", real=True)
+        q = Quaternion(sp.cos(th / 2), n1 * sp.sin(th / 2), n2 * sp.sin(th / 2), n3 * sp.sin(th / 2))
+        out = Quaternion.rotate_point((x1, x2, x3), q)
+        G = sp.groebner([n1**2 + n2**2 + n3**2 - 1], n1, n2, n3, x1, x2, x3, order="grevlex")
+        simplified = []
+        for c in out:
+            c = sp.trigsimp(sp.expand(c))
+            num, den = sp.fraction(sp.together(c))
+            num = G.reduce(sp.expand(num))[1]
+            den = G.reduce(sp.expand(den))[1]
+            simplified.append(sp.trigsimp(num / den))
+        str(simplified)
+
+    return side_by_side(ours, baseline, repeats)
+
+
+def identity_script(count=200, seed=7):
+    """A deterministic script of identity checks and the same identities as Pauli matrices."""
+    rng = random.Random(seed)
+    lines = ["vector a, b, c", "multivector M, N"]
+    pauli_cases = []
+
+    def rv():
+        return [sp.Rational(rng.randint(-9, 9), rng.randint(1, 5)) for _ in range(8)]
+
+    templates = ["assoc", "rev", "vecsplit", "inverse", "dist"]
+    for i in range(count):
+        kind = templates[i % len(templates)]
+        A, B, C = rv(), rv(), rv()
+        lit = [" + ".join(f"({x})*{b}" if b != "1" else f"({x})" for x, b in zip(v, BASIS)) for v in (A, B, C)]
+        if kind == "assoc":
+            lines.append(f"check ({lit[0]}) (({lit[1]}) M) == (({lit[0]}) ({lit[1]})) M")
+            pa, pb = pauli_of(A), pauli_of(B)
+            pm = pauli_of(symbolic_components("M"))
+            pauli_cases.append((pa * (pb * pm), (pa * pb) * pm))
+        elif kind == "rev":
+            lines.append(f"check (({lit[0]}) M)~ == M~ ({lit[0]})~")
+            pa, pm = pauli_of(A), pauli_of(symbolic_components("M"))
+            pauli_cases.append(((pa * pm).H, pm.H * pa.H))
+        elif kind == "vecsplit":
+            lines.append("check a b == a . b + a /\\ b")
+            pa = pauli_of([0, *symbolic_components("a")[1:4], 0, 0, 0, 0])
+            pb = pauli_of([0, *symbolic_components("b")[1:4], 0, 0, 0, 0])
+            pauli_cases.append((pa * pb, (pa * pb + pb * pa) / 2 + (pa * pb - pb * pa) / 2))
+        elif kind == "inverse":
+            lines.append(f"check ({lit[0]}) ({lit[0]})^-1 == 1")
+            pa = pauli_of(A)
+            pauli_cases.append((pa * pa.inv(), ID))
+        else:
+            lines.append(f"check ({lit[0]}) (M + N) == ({lit[0]}) M + ({lit[0]}) N")
+            pa, pm, pn = pauli_of(A), pauli_of(symbolic_components("M")), pauli_of(symbolic_components("N"))
+            pauli_cases.append((pa * (pm + pn), pa * pm + pa * pn))
+    return "\n".join(lines) + "\n", pauli_cases
+
+
+def case_script(repeats):
+    text, pauli_cases = identity_script()
+
+    def ours():
+        from gacalc.runner import run_script_text
+
+        status, output = run_script_text(text, "bench.gac")
+        assert status == 0, output[-400:]
+
+    def baseline():
+        for lhs, rhs in pauli_cases:
+            assert (lhs - rhs).applyfunc(sp.expand) == sp.zeros(2, 2)
+
+    return side_by_side(ours, baseline, repeats)
+
+
+def wall(cmd, repeats):
+    times = []
+    for _ in range(repeats):
+        t0 = time.perf_counter()
+        subprocess.run(cmd, check=True, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL)
+        times.append(time.perf_counter() - t0)
+    return statistics.median(times)
+
+
+def case_startup(repeats):
+    py = sys.executable
+    ours = wall([py, "-m", "gacalc", "-e", "1"], repeats)
+    base = wall([py, "-c", "import sympy"], repeats)
+    return ours, base
+
+
+LATENCY_CASES = {
+    "declare": ("", "vector a, b, c"),
+    "product": ("vector a, b, c", "a b"),
+    "wedge3": ("vector a, b, c", "a /\\ b /\\ c"),
+    "show rotor": ("R = rotor(e12, theta)", "show R"),
+    "unit check": ("vector n unit", "check n n == 1"),
+}
+
+
+def case_latency(repeats):
+    out = {}
+    for label, (setup, stmt) in LATENCY_CASES.items():
+        times = []
+        for _ in range(repeats):
+            s = new_session()
+            if setup:
+                run_ok(s, setup)
+            times.append(timed(lambda: run_ok(s, stmt)))
+        out[label] = statistics.median(times) * 1000
+    return out
+
+
+def peak_rss_kib(cmd):
+    """Peak resident set size of a child process, via GNU time's format or resource."""
+    code = (
+        "import resource, subprocess, sys; subprocess.run(sys.argv[1:], stdout=subprocess.DEVNULL, "
+        "stderr=subprocess.DEVNULL); print(resource.getrusage(resource.RUSAGE_CHILDREN).ru_maxrss)"
+    )
+    res = subprocess.run([sys.executable, "-c", code, *cmd], capture_output=True, text=True, check=True)
+    return int(res.stdout.strip())
+
+
+def case_memory():
+    examples = sorted((ROOT / "gacalc" / "examples").glob("*.gac"))
+    ours = max(peak_rss_kib([sys.executable, "-m", "gacalc", str(p)]) for p in examples) if examples else 0
+    base = peak_rss_kib([sys.executable, "-c", "import sympy"])
+    return ours, base
+
+
+# --------------------------------------------------------------------------- main
+
+
+def main():
+    ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    ap.add_argument("--quick", action="store_true", help="fewer repeats, k up to 4 (under 4 minutes)")
+    args = ap.parse_args()
+    repeats = 3 if args.quick else 5
+    ks = (2, 3, 4) if args.quick else (2, 3, 4, 5)
+
+    from gacalc.algebra.coefficients import REGISTRY
+
+    print(f"SYMPY_GROUND_TYPES={os.environ.get('SYMPY_GROUND_TYPES', '(unset)')} "
+          f"sympy {sp.__version__}; coefficient domain: {type(REGISTRY.ctx).__name__} "
+          f"(python-flint) rational functions")
+    ratios = {}
+    for k in ks:
+        ours, base = case_products(k, 1 if k == 5 else repeats)
+        ratios[k] = base / ours
+        print(f"ratio products k={k}: {ratios[k]:.1f}   (gacalc {ours*1000:.1f} ms, Pauli matrices {base*1000:.1f} ms)")
+    ours, base = case_rotor(repeats)
+    print(f"ratio rotor: {base/ours:.1f}   (gacalc {ours*1000:.1f} ms, Quaternion+trigsimp {base*1000:.1f} ms)")
+    ours, base = case_script(1 if args.quick else 3)
+    print(f"ratio script: {base/ours:.1f}   (gacalc {ours:.2f} s, Pauli matrices {base:.2f} s)")
+    ours, base = case_startup(5 if args.quick else 10)
+    print(f"startup: {ours/base:.2f} × import sympy   (gacalc -e 1 {ours*1000:.0f} ms, import sympy {base*1000:.0f} ms)")
+    lat = case_latency(5 if args.quick else 15)
+    print("latency median: " + ", ".join(f"{label} {ms:.1f} ms" for label, ms in lat.items()))
+    ours, base = case_memory()
+    print(f"memory: {ours/base:.2f} × import sympy   (demos {ours/1024:.0f} MiB, import sympy {base/1024:.0f} MiB)")
+    small = [ratios[k] for k in ratios if k >= 3]
+    print(f"min ratio: {min(small):.1f}")
+
+
+if __name__ == "__main__":
+    main()
