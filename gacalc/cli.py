@@ -113,20 +113,21 @@ def _demo_paths(parser, names: list[str]) -> tuple[list[str], dict]:
 def _run_scripts(args, options) -> int:
     from gacalc.runner import ScriptRunner, Tally
 
+    files = list(args.files)
+    if "-" in files and len(files) > 1:
+        print("gacalc: '-' (standard input) must be the only file", file=sys.stderr)
+        return 2
     runner = ScriptRunner(options)
     total = Tally()
     if args.statements:
         text = "\n".join(args.statements)
         total.add(runner.run_text(text, "<command line>"))
-    files = list(args.files)
     if files == ["-"]:
-        total.add(runner.run_text(sys.stdin.read(), "<stdin>"))
+        text = sys.stdin.read() if sys.stdin is not None else ""
+        total.add(runner.run_text(text, "<stdin>"))
     elif files and not total.interrupted:
-        if "-" in files:
-            print("gacalc: '-' (standard input) must be the only file", file=sys.stderr)
-            return 2
         total.add(runner.run_files(files, headings=len(files) > 1 or args.demo,
-                                   titles=getattr(args, "titles", None)))
+                                   titles=args.titles))
     return total.exit_status()
 
 
@@ -136,8 +137,9 @@ def main(argv: list[str] | None = None) -> int:
     if args.budget is not None and not args.budget > 0:
         parser.error("--budget must be a positive number of seconds")
 
-    stdin_is_tty = sys.stdin.isatty() if sys.stdin is not None else False
-    interactive = not (args.files or args.statements or args.demo) and stdin_is_tty
+    # The REPL needs a terminal on both sides; otherwise typed or piped text is a script.
+    terminal = all(stream is not None and stream.isatty() for stream in (sys.stdin, sys.stdout))
+    interactive = not (args.files or args.statements or args.demo) and terminal
     unicode = args.unicode if args.unicode is not None else _default_unicode(sys.stdout)
     _protect_streams(unicode)
 
@@ -149,6 +151,7 @@ def main(argv: list[str] | None = None) -> int:
 
     from gacalc.runner import RunOptions, wants_color
 
+    args.titles = None
     if args.demo:
         args.files, args.titles = _demo_paths(parser, args.files)
     options = RunOptions(unicode=unicode, color=wants_color(sys.stdout, not args.no_color),
@@ -160,10 +163,9 @@ def main(argv: list[str] | None = None) -> int:
         return _run_scripts(args, options)
     except BrokenPipeError:
         # Output piped into a program that stopped reading (head, less): not an error.
-        try:
-            sys.stdout = open(os.devnull, "w")
-        except OSError:
-            pass
+        # Point stdout at devnull so the interpreter's final flush does not complain.
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
         return 0
     except KeyboardInterrupt:
         print("interrupted", file=sys.stderr)

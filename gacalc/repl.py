@@ -20,7 +20,7 @@ import sys
 
 from gacalc import __version__
 from gacalc.language import syntax as S
-from gacalc.runner import Style, error_text
+from gacalc.runner import Style, error_text, styled_result
 
 PROMPT = "gac> "
 CONTINUATION = "...> "
@@ -66,13 +66,13 @@ def toolbar_text(session, width: int = 100) -> str:
     by_kind: dict[str, list[str]] = {}
     for name, kind in session.declarations.items():
         by_kind.setdefault(kind, []).append(name)
-    parts = [f"{kind} {' '.join(sorted(names))}" for kind, names in sorted(by_kind.items())]
+    parts = [f"{kind}: {' '.join(sorted(names))}" for kind, names in sorted(by_kind.items())]
     others = sorted(name for name in session.values if name not in session.declarations)
     if others:
-        parts.append("= " + " ".join(others))
+        parts.append("values: " + " ".join(others))
     functions = sorted(session.functions)
     if functions:
-        parts.append("f: " + " ".join(f"{name}()" for name in functions))
+        parts.append("functions: " + " ".join(f"{name}()" for name in functions))
     assumed = [c.text for c in session.conditions if getattr(c, "origin", "") == "assume"]
     names = " | ".join(parts) if parts else "no names yet"
     mode = "unicode" if session.unicode else "ascii"
@@ -161,6 +161,9 @@ class Repl:
 
     def show_error(self, error):
         """Typed input: the message, then the line and the caret (no '<input>' prefix)."""
+        if getattr(error, "kind", "") == "interrupt":
+            self._print(self.style.paint("error", error.full_message()))
+            return
         if error.span is not None and error.span.filename is None and \
                 getattr(error, "kind", "") != "internal":
             lines = error.caret_text().split("\n")
@@ -173,17 +176,9 @@ class Repl:
         self._print(self.style.first_line("error", error_text(error)))
 
     def show_result(self, result):
-        style = self.style
-        if result.kind == "check":
-            role = {"holds": "held", "fails": "failed"}.get(result.outcome, "undecided")
-            self._print(style.first_line(role, result.text))
-            return
-        if result.silent:
-            return
-        text = result.text
-        if result.kind == "note":
-            text = style.paint("note", text)
-        self._print(text)
+        text = styled_result(result, self.style)
+        if text is not None:
+            self._print(text)
 
     # One input ---------------------------------------------------------------------------
     def handle(self, text: str) -> bool:
@@ -198,15 +193,24 @@ class Repl:
         reading = reading_of(text, self.session.unicode)
         if reading is not None:
             self._print(self.style.paint("source", f"read as {reading}"))
+        printing = False
         try:
             for result in self.session.iter_run(text):
+                printing = True
                 if isinstance(result, GacalcError):
                     self.show_error(result)
                     break
                 self.show_result(result)
+                printing = False
         except KeyboardInterrupt:
-            # Between statements (parsing or printing): nothing half-done is kept.
-            self._print(self.style.paint("error", "interrupted: the session is unchanged"))
+            # A statement interrupted while it runs comes back from the Session as a
+            # GacalcInterrupt; this is Ctrl-C while parsing (nothing ran) or printing.
+            if printing:
+                message = ("interrupted while printing: that statement had finished and is "
+                           "kept; the statements after it did not run")
+            else:
+                message = "interrupted: the session is unchanged"
+            self._print(self.style.paint("error", message))
         return True
 
     # prompt_toolkit --------------------------------------------------------------------------

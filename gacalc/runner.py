@@ -95,6 +95,19 @@ def error_text(error) -> str:
     return text
 
 
+def styled_result(result, style: Style) -> str | None:
+    """A Session result as printed, or None when its statement was silenced with ';'.
+    A check always reports, even after ';': its outcome is its whole point."""
+    if result.kind == "check":
+        role = {"holds": "held", "fails": "failed"}.get(result.outcome, "undecided")
+        return style.first_line(role, result.text)
+    if result.silent:
+        return None
+    if result.kind == "note":
+        return style.paint("note", result.text)
+    return result.text
+
+
 # Tallies -------------------------------------------------------------------------------
 @dataclass
 class Tally:
@@ -194,23 +207,16 @@ class ScriptRunner:
         self.err.flush()
 
     def _print_result(self, result, tally: Tally, indent: str = ""):
-        style = self.style
         if result.kind == "check":
-            # A check always reports, even after ';': its outcome is its whole point.
-            role = {"holds": "held", "fails": "failed"}.get(result.outcome, "undecided")
-            if role == "held":
+            if result.outcome == "holds":
                 tally.passed += 1
-            elif role == "failed":
+            elif result.outcome == "fails":
                 tally.failed += 1
             else:
                 tally.undecided += 1
-            text = style.first_line(role, result.text)
-        elif result.silent:
+        text = styled_result(result, self.style)
+        if text is None:
             return
-        elif result.kind == "note":
-            text = style.paint("note", result.text)
-        else:
-            text = result.text
         if indent:
             text = "\n".join(indent + line for line in text.split("\n"))
         self._print(text)

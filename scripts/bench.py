@@ -150,7 +150,9 @@ def case_rotor(repeats):
 
 
 def identity_script(count=200, seed=7):
-    """A deterministic script of identity checks and the same identities as Pauli matrices."""
+    """A deterministic script of identity checks, and the same identities for Pauli matrices.
+
+    The Pauli side is a list of callables so that building the products is timed too."""
     rng = random.Random(seed)
     lines = ["vector a, b, c", "multivector M, N"]
     pauli_cases = []
@@ -158,33 +160,36 @@ def identity_script(count=200, seed=7):
     def rv():
         return [sp.Rational(rng.randint(-9, 9), rng.randint(1, 5)) for _ in range(8)]
 
+    def M():
+        return pauli_of(symbolic_components("M"))
+
+    def N():
+        return pauli_of(symbolic_components("N"))
+
+    def vec(name):
+        return pauli_of([0, *symbolic_components(name)[1:4], 0, 0, 0, 0])
+
     templates = ["assoc", "rev", "vecsplit", "inverse", "dist"]
     for i in range(count):
         kind = templates[i % len(templates)]
-        A, B, C = rv(), rv(), rv()
-        lit = [" + ".join(f"({x})*{b}" if b != "1" else f"({x})" for x, b in zip(v, BASIS)) for v in (A, B, C)]
+        A, B = rv(), rv()
+        la, lb = (" + ".join(f"({x})*{b}" if b != "1" else f"({x})" for x, b in zip(v, BASIS)) for v in (A, B))
         if kind == "assoc":
-            lines.append(f"check ({lit[0]}) (({lit[1]}) M) == (({lit[0]}) ({lit[1]})) M")
-            pa, pb = pauli_of(A), pauli_of(B)
-            pm = pauli_of(symbolic_components("M"))
-            pauli_cases.append((pa * (pb * pm), (pa * pb) * pm))
+            lines.append(f"check ({la}) (({lb}) M) == (({la}) ({lb})) M")
+            pauli_cases.append(lambda A=A, B=B: (pauli_of(A) * (pauli_of(B) * M()), (pauli_of(A) * pauli_of(B)) * M()))
         elif kind == "rev":
-            lines.append(f"check (({lit[0]}) M)~ == M~ ({lit[0]})~")
-            pa, pm = pauli_of(A), pauli_of(symbolic_components("M"))
-            pauli_cases.append(((pa * pm).H, pm.H * pa.H))
+            lines.append(f"check (({la}) M)~ == M~ ({la})~")
+            pauli_cases.append(lambda A=A: ((pauli_of(A) * M()).H, M().H * pauli_of(A).H))
         elif kind == "vecsplit":
             lines.append("check a b == a . b + a /\\ b")
-            pa = pauli_of([0, *symbolic_components("a")[1:4], 0, 0, 0, 0])
-            pb = pauli_of([0, *symbolic_components("b")[1:4], 0, 0, 0, 0])
-            pauli_cases.append((pa * pb, (pa * pb + pb * pa) / 2 + (pa * pb - pb * pa) / 2))
+            pauli_cases.append(lambda: (vec("a") * vec("b"), (vec("a") * vec("b") + vec("b") * vec("a")) / 2
+                                        + (vec("a") * vec("b") - vec("b") * vec("a")) / 2))
         elif kind == "inverse":
-            lines.append(f"check ({lit[0]}) ({lit[0]})^-1 == 1")
-            pa = pauli_of(A)
-            pauli_cases.append((pa * pa.inv(), ID))
+            lines.append(f"check ({la}) ({la})^-1 == 1")
+            pauli_cases.append(lambda A=A: (pauli_of(A) * pauli_of(A).inv(), ID))
         else:
-            lines.append(f"check ({lit[0]}) (M + N) == ({lit[0]}) M + ({lit[0]}) N")
-            pa, pm, pn = pauli_of(A), pauli_of(symbolic_components("M")), pauli_of(symbolic_components("N"))
-            pauli_cases.append((pa * (pm + pn), pa * pm + pa * pn))
+            lines.append(f"check ({la}) (M + N) == ({la}) M + ({la}) N")
+            pauli_cases.append(lambda A=A: (pauli_of(A) * (M() + N()), pauli_of(A) * M() + pauli_of(A) * N()))
     return "\n".join(lines) + "\n", pauli_cases
 
 
@@ -192,13 +197,17 @@ def case_script(repeats):
     text, pauli_cases = identity_script()
 
     def ours():
-        from gacalc.runner import run_script_text
+        import io
 
-        status, output = run_script_text(text, "bench.gac")
-        assert status == 0, output[-400:]
+        from gacalc.runner import ScriptRunner
+
+        out = io.StringIO()
+        tally = ScriptRunner(out=out, err=out).run_text(text, "bench.gac")
+        assert tally.exit_status() == 0 and tally.passed == len(pauli_cases), out.getvalue()[-600:]
 
     def baseline():
-        for lhs, rhs in pauli_cases:
+        for case in pauli_cases:
+            lhs, rhs = case()
             assert (lhs - rhs).applyfunc(sp.expand) == sp.zeros(2, 2)
 
     return side_by_side(ours, baseline, repeats)

@@ -347,23 +347,34 @@ def test_rational_powers():
 # -- slerp -------------------------------------------------------------------------------------
 
 
-def test_slerp_endpoints_and_midpoint():
+NICE_ROTORS = [
+    rotor(e12, sympy.pi / 3),
+    rotor(vector(sympy.Rational(1, 3), sympy.Rational(2, 3), sympy.Rational(2, 3)), sympy.pi / 2),
+    rotor(vector(sympy.Rational(2, 3), sympy.Rational(-1, 3), sympy.Rational(2, 3)), 3 * sympy.pi / 2),
+    rotor(e1, 5 * sympy.pi / 3),
+]
+
+
+@pytest.mark.parametrize("i, j", [(0, 1), (1, 2), (2, 3), (3, 0), (0, 2)])
+def test_slerp_endpoints_and_midpoint(i, j):
     # common practice: slerp(R1, R2, 0) = R1, slerp(.., 1) = +-R2, midpoint = R1 sqrt(R1~ R2)
-    for _ in range(4):
-        R1, R2 = random_rotor(), random_rotor()
-        assert close(slerp(R1, R2, 0), R1)
-        end = slerp(R1, R2, 1)
-        assert close(end, R2) or close(end, -R2)
-        D = R1.rev() * R2
-        if float(sympy.N(D[0])) < 0:
-            D = -D
-        assert close(slerp(R1, R2, sympy.Rational(1, 2)), R1 * sqrt(D))
+    # (R2 flipped to -R2 when <R1~ R2>_0 < 0)
+    R1, R2 = NICE_ROTORS[i], NICE_ROTORS[j]
+    assert same(slerp(R1, R2, 0), R1)
+    D = R1.rev() * R2
+    flip = float(sympy.N(D[0])) < 0
+    assert same(slerp(R1, R2, 1), -R2 if flip else R2)
+    if flip:
+        D = -D
+    assert close(slerp(R1, R2, sympy.Rational(1, 2)), R1 * sqrt(D))
 
 
 def test_slerp_matches_scipy():
-    # scipy.spatial.transform.Slerp interpolates along the shorter arc, like ours
-    for _ in range(4):
-        R1, R2 = random_rotor(), random_rotor()
+    # scipy.spatial.transform.Slerp interpolates along the shorter arc, like ours; the
+    # rotors are evaluated to floating point first (exact forms of two generic rotors'
+    # slerp are large; the float path is what a numeric user gets)
+    for _ in range(5):
+        R1, R2 = random_rotor().evalf(), random_rotor().evalf()
         ref = Slerp([0, 1], Rotation.concatenate([rotation_of(R1), rotation_of(R2)]))
         for t in (sympy.Rational(1, 4), sympy.Rational(2, 3)):
             ours = rotation_of(slerp(R1, R2, t))
@@ -438,12 +449,12 @@ def test_spin_precession_in_magnetic_field():
     assert close(U, rotor(n, wt))
 
 
-@settings(max_examples=15, deadline=None)
+@settings(max_examples=12, deadline=None)
 @given(st.lists(st.integers(-4, 4), min_size=8, max_size=8))
 def test_exp_inverse_property(coeffs):
-    # common practice: exp(A) exp(-A) = 1
+    # common practice: exp(A) exp(-A) = 1 (the product taken in the Pauli representation)
     A = Multivector(dict(enumerate(coeffs)))
-    assert close(exp(A) * exp(-A), ONE, tol=1e-8)
+    assert np.allclose(pauli_numeric(exp(A)) @ pauli_numeric(exp(-A)), np.eye(2), atol=1e-8)
 
 
 # -- properties of rotors ----------------------------------------------------------------------------
@@ -452,7 +463,7 @@ small = st.fractions(min_value=-6, max_value=6, max_denominator=5)
 directions = st.tuples(small, small, small).filter(any).map(lambda c: vector(*c))
 
 
-@settings(max_examples=15, deadline=None)
+@settings(max_examples=10, deadline=None)
 @given(directions, directions, directions)
 def test_rotor_between_properties(a, b, x):
     # common practice: the result is a unit rotor turning the direction of a into that of b,
@@ -464,8 +475,9 @@ def test_rotor_between_properties(a, b, x):
 
 
 @settings(max_examples=15, deadline=None)
-@given(directions, small, small)
-def test_rotor_angles_add_in_one_plane(n, s, t):
+@given(directions)
+def test_rotor_angles_add_in_one_plane(n):
     # common practice: rotors in the same plane compose by adding angles
     n = unit(n)
+    s, t = sympy.symbols("s t", real=True)
     assert same(rotor(n, t) * rotor(n, s), rotor(n, s + t))

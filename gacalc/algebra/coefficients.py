@@ -18,6 +18,7 @@ in an "expr" mode, the honest fallback for what the polynomial domain cannot hol
 
 from __future__ import annotations
 
+from decimal import Decimal
 from fractions import Fraction
 
 import flint
@@ -153,8 +154,14 @@ class Coef:
         return Coef(num, den)
 
     def _parts(self):
-        lift = REGISTRY.lift
-        return lift(self.num), (lift(self.den) if self.den is not None else None)
+        # Lift into the current context once and keep the lifted polynomials: the value is
+        # unchanged, and a long-lived coefficient (a declared symbol) stops paying for it.
+        ctx = REGISTRY.ctx
+        if self.num.context() is not ctx:
+            self.num = self.num.project_to_context(ctx)
+        if self.den is not None and self.den.context() is not ctx:
+            self.den = self.den.project_to_context(ctx)
+        return self.num, self.den
 
     # -- queries -------------------------------------------------------------
 
@@ -171,6 +178,10 @@ class Coef:
     def constant_value(self):
         """The rational value of a constant coefficient (a flint fmpq)."""
         return self.num.leading_coefficient() if not self.num.is_zero() else flint.fmpq(0)
+
+    def is_rational(self) -> bool:
+        """A plain rational number (no generators)."""
+        return self.expr is None and self.den is None and self.num.is_constant()
 
     def is_polynomial(self) -> bool:
         return self.expr is None and self.den is None
@@ -443,8 +454,11 @@ class _AsciiPrinter(StrPrinter):
         return "exp(1)"
 
     def _print_Float(self, expr):
+        # positional notation (the language has no exponent syntax), every digit kept
         s = super()._print_Float(expr)
-        return s if "e" not in s.lower() else format(float(expr), "f")
+        if "e" not in s.lower():
+            return s
+        return format(Decimal(s), "f")
 
 
 _PRINTER = _AsciiPrinter({"order": "none"})

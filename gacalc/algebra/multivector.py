@@ -24,24 +24,25 @@ class NotInvertibleError(AlgebraError):
         self.condition = condition
 
 
-def _product_terms(keep):
-    """(i, j, sign, k) for every pair of basis elements whose product term is kept."""
-    out = []
+def _product_table(keep):
+    """table[i][j] = (sign, k) for the basis pairs whose product term is kept, else None."""
+    table = []
     for i in range(8):
+        row = []
         for j in range(8):
             sign, k = PRODUCT_TABLE[i][j]
-            if keep(BASIS_GRADES[i], BASIS_GRADES[j], BASIS_GRADES[k]):
-                out.append((i, j, sign, k))
-    return tuple(out)
+            row.append((sign, k) if keep(BASIS_GRADES[i], BASIS_GRADES[j], BASIS_GRADES[k]) else None)
+        table.append(tuple(row))
+    return tuple(table)
 
 
 # Every product of Cl(3,0) is the geometric product restricted to certain grade triples.
-_GEOMETRIC = _product_terms(lambda r, s, g: True)
-_OUTER = _product_terms(lambda r, s, g: g == r + s)
-_LEFT = _product_terms(lambda r, s, g: s >= r and g == s - r)
-_RIGHT = _product_terms(lambda r, s, g: r >= s and g == r - s)
-_HESTENES = _product_terms(lambda r, s, g: r > 0 and s > 0 and g == abs(r - s))
-_SCALAR = _product_terms(lambda r, s, g: g == 0)
+_GEOMETRIC = _product_table(lambda r, s, g: True)
+_OUTER = _product_table(lambda r, s, g: g == r + s)
+_LEFT = _product_table(lambda r, s, g: s >= r and g == s - r)
+_RIGHT = _product_table(lambda r, s, g: r >= s and g == r - s)
+_HESTENES = _product_table(lambda r, s, g: r > 0 and s > 0 and g == abs(r - s))
+_SCALAR = _product_table(lambda r, s, g: g == 0)
 
 _SCALAR_TYPES = (Integral, Fraction, sympy.Basic)
 
@@ -163,20 +164,26 @@ class Multivector:
 
     # -- products --------------------------------------------------------------------
 
-    def _product(self, other, terms) -> "Multivector":
+    def _product(self, other, table) -> "Multivector":
         other = _coerce(other)
-        a, b = self._c, other._c
+        left = [(i, x) for i, x in enumerate(self._c) if x is not None]
+        right = [(j, y) for j, y in enumerate(other._c) if y is not None]
+        if all(c.is_rational() for _, c in left) and all(c.is_rational() for _, c in right):
+            return _rational_product(left, right, table)
         out = [None] * 8
-        for i, j, sign, k in terms:
-            x, y = a[i], b[j]
-            if x is None or y is None:
-                continue
-            t = x * y
-            acc = out[k]
-            if acc is None:
-                out[k] = t if sign > 0 else -t
-            else:
-                out[k] = acc + t if sign > 0 else acc - t
+        for i, x in left:
+            row = table[i]
+            for j, y in right:
+                entry = row[j]
+                if entry is None:
+                    continue
+                sign, k = entry
+                t = x * y
+                acc = out[k]
+                if acc is None:
+                    out[k] = t if sign > 0 else -t
+                else:
+                    out[k] = acc + t if sign > 0 else acc - t
         return Multivector._from_coefs(out)
 
     def __mul__(self, other):
@@ -399,6 +406,21 @@ class Multivector:
         from gacalc.export import latex_of
 
         return f"$${latex_of(self)}$$"
+
+
+def _rational_product(left, right, table) -> "Multivector":
+    """The same product for purely rational operands, in flint's fmpq (no polynomials)."""
+    lq = [(i, c.constant_value()) for i, c in left]
+    rq = [(j, c.constant_value()) for j, c in right]
+    out = [0] * 8
+    for i, x in lq:
+        row = table[i]
+        for j, y in rq:
+            entry = row[j]
+            if entry is not None:
+                sign, k = entry
+                out[k] = out[k] + x * y if sign > 0 else out[k] - x * y
+    return Multivector._from_coefs(Coef.constant(v) if v else None for v in out)
 
 
 def _condition_text_expr(d: Coef):

@@ -79,9 +79,19 @@ def _simplified(expr):
     from gacalc.simplify import simplify_scalar
 
     out = simplify_scalar(expr)
-    if out.is_number and out.has(sympy.Pow):
+    if _small_algebraic(out):
         out = sympy.sqrtdenest(sympy.radsimp(out))
     return out
+
+
+RADSIMP_MAX_OPS = 40  # radsimp and sqrtdenest grow quickly; beyond this, keep the plain form
+
+
+def _small_algebraic(expr) -> bool:
+    """A short number built from rationals and radicals only (radsimp's safe ground)."""
+    if not expr.is_number or not expr.has(sympy.Pow) or expr.has(sympy.Function):
+        return False
+    return sympy.count_ops(expr) <= RADSIMP_MAX_OPS
 
 
 def _tidy(mv: Multivector) -> Multivector:
@@ -90,9 +100,9 @@ def _tidy(mv: Multivector) -> Multivector:
     from gacalc.simplify import reduce_coef
 
     reduced = Multivector._from_coefs(reduce_coef(c) if c is not None else None for c in mv.coefs())
-    if not any(e.is_number and e.has(sympy.Pow) for _, e in reduced.items()):
+    if not any(_small_algebraic(e) for _, e in reduced.items()):
         return reduced
-    return reduced.map_coefficients(lambda e: _simplified(e) if e.is_number else e)
+    return reduced.map_coefficients(lambda e: _simplified(e) if _small_algebraic(e) else e)
 
 
 def _even_root(w):
@@ -228,7 +238,7 @@ def rotor_between(a, b, conditions=()):
     if _vanishes(s) is True:
         return _half_turn_about(a, what), True
     k = _simplified(sympy.sqrt(2 * s) / (2 * s))
-    return _tidy((ONE + b * a).scale(k)), False
+    return _tidy((ONE + a * b).scale(k)), False
 
 
 def _half_turn_about(a: Multivector, what: str) -> Multivector:
