@@ -178,6 +178,37 @@ def test_rotor_rejects_bad_input():
         rotor(e12, e1)
 
 
+def test_declared_unit_conditions_are_accepted():
+    # a unit axis declared symbolically: rotate agrees with scipy's from_rotvec at a unit point
+    n, cond = symbolic("vector", "n", unit=True)
+    x, _ = symbolic("vector", "x")
+    turned = rotate(rotor(n, theta, conditions=cond), x, conditions=cond)
+    n1, n2, n3 = (sympy.Symbol(f"n{k}", real=True) for k in (1, 2, 3))
+    x1, x2, x3 = (sympy.Symbol(f"x{k}", real=True) for k in (1, 2, 3))
+    point = {n1: sympy.Rational(2, 7), n2: sympy.Rational(-3, 7), n3: sympy.Rational(6, 7),
+             x1: 1, x2: sympy.Rational(1, 2), x3: -2, theta: sympy.Rational(5, 4)}
+    ref = Rotation.from_rotvec(1.25 * np.array([2, -3, 6]) / 7).apply([1, 0.5, -2])
+    assert np.allclose(vec(turned.subs(point)), ref)
+    # two declared rotors: their product is a rotor given both conditions, not given one
+    R, c1 = symbolic("rotor", "R")
+    Q, c2 = symbolic("rotor", "Q")
+    assert rotate(Q * R, x, conditions=c1 + c2).grades() <= {1}
+    with pytest.raises(AlgebraError, match="cannot tell"):
+        rotate(Q * R, x, conditions=c1)
+
+
+def test_floating_point_rotors():
+    # floats only on request: an evaluated rotor still works, within a tolerance;
+    # reference scipy from_rotvec
+    n, th, x = random_unit_vector(), random_angle(), random_vector()
+    R = rotor(n, th).evalf()
+    ref = Rotation.from_rotvec(float(th) * vec(n)).apply(vec(x))
+    assert np.allclose(vec(rotate(R, x)), ref)
+    assert np.allclose(num(exp(log(R))), num(R))
+    A = random_multivector().evalf()
+    assert np.allclose(pauli_numeric(exp(A)), scipy.linalg.expm(pauli_numeric(A)), atol=1e-9)
+
+
 # -- rotor between two vectors ------------------------------------------------------------------------
 
 

@@ -88,7 +88,7 @@ class Multivector:
     # -- access ----------------------------------------------------------------
 
     def __getitem__(self, key):
-        k = key if isinstance(key, int) else _index_of(key)
+        k = int(key) if isinstance(key, (Integral, sympy.Integer)) else _index_of(key)
         c = self._c[k]
         return sympy.Integer(0) if c is None else c.to_expr()
 
@@ -438,6 +438,8 @@ def _index_of(key) -> int:
     if isinstance(key, str):
         if key in BASIS_NAMES:
             return BASIS_NAMES.index(key)
+        if key.startswith("e") and key[1:].isdigit():
+            raise AlgebraError(f"{key} is not in the basis order; use blade({key[1:]!r})")
     raise KeyError(f"not a basis element: {key!r}")
 
 

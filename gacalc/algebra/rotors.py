@@ -134,8 +134,8 @@ def _vanishes(expr, conditions=()):
         try:
             verdict = is_zero(mv, conditions)
         except ImportError:
-            # the side-condition reducer is not there yet: accept an exact multiple of a condition
-            verdict = True if _multiple_of_condition(expr, conditions) else None
+            # the side-condition reducer is not there yet
+            verdict = True if _in_condition_ideal(expr, conditions) else None
         if verdict is True:
             return True
     if not expr.free_symbols:
@@ -143,15 +143,27 @@ def _vanishes(expr, conditions=()):
     return None if verdict is False else verdict  # symbolic: "not identically zero" is not "nonzero"
 
 
-def _multiple_of_condition(expr, conditions) -> bool:
-    for c in conditions:
-        c = c if isinstance(c, sympy.Basic) else sympy.Integer(c)
-        if c == 0:
-            continue
-        ratio = sympy.cancel(expr / c)
-        if ratio.is_number and ratio != 0:
-            return True
-    return False
+def _in_condition_ideal(expr, conditions) -> bool:
+    """Stand-in for gacalc.simplify's side-condition reducer until it exists: is the
+    numerator of expr (trig relations applied) in the ideal of the conditions?  Decided by
+    reduction modulo sympy's Gröbner basis of the conditions (sin, cos, sqrt are generators)."""
+    from gacalc.algebra.coefficients import from_expr
+    from gacalc.simplify import reduce_coef
+
+    conds = [c if isinstance(c, sympy.Basic) else sympy.Integer(c) for c in conditions]
+    conds = [c for c in conds if c != 0]
+    if not conds:
+        return False
+    try:
+        numer = sympy.numer(sympy.together(reduce_coef(from_expr(expr)).to_expr()))
+        gens = set(sympy.Poly(numer).gens)
+        for c in conds:
+            gens |= set(sympy.Poly(c).gens)
+        gens = sorted(gens, key=sympy.default_sort_key)
+        basis = sympy.groebner(conds, *gens, order="grevlex")
+        return basis.reduce(sympy.expand(numer))[1] == 0
+    except (sympy.PolynomialError, sympy.GeneratorsNeeded, ValueError, TypeError):
+        return False
 
 
 def _unit_verdict(mv: Multivector, conditions=()):
@@ -166,6 +178,8 @@ def _require_unit(mv: Multivector, what: str, noun: str, conditions=()):
         if n2 == 0:
             raise AlgebraError(f"{what} needs {noun}; got 0")
         raise AlgebraError(f"{what} needs {noun}; this one has norm {_text(_simplified(sympy.sqrt(n2)))}")
+    if sympy.count_ops(n2) <= 200:
+        n2 = sympy.factor(n2)  # (R0^2 + ...)*(Q0^2 + ...) reads better than its expansion
     raise AlgebraError(f"{what} needs {noun}; cannot tell that {_text(n2)} = 1")
 
 
@@ -210,35 +224,37 @@ def rotor(B_or_n, theta, conditions=()) -> Multivector:
     return Multivector({0: sympy.cos(half)}) - B.scale(sympy.sin(half))
 
 
-def _unit_direction(v: Multivector, what: str, conditions) -> Multivector:
+def _length(v: Multivector, what: str, conditions):
+    """|v| for a nonzero vector v: 1 when v is known to be unit, else sqrt(v.v)."""
     if v.grades() != {1}:
         got = "0" if v.is_zero() else _grade_words(v.grades())
         raise AlgebraError(f"{what} needs two nonzero vectors; got {got}")
     if _unit_verdict(v, conditions) is True:
-        return v
-    if _vanishes(v.norm2()) is True:
+        return sympy.Integer(1)
+    n2 = _simplified(v.norm2())
+    if _vanishes(n2) is True:
         raise AlgebraError(f"{what} needs two nonzero vectors; got 0")
-    return _normalized(v)
+    return _simplified(sympy.sqrt(n2))
 
 
 def rotor_between(a, b, conditions=()):
     """(R, arbitrary): the rotor in the plane of a and b that turns the direction of a into b's.
 
-    R = (1 + b a)/|1 + b a| with a, b normalised (so R a R~ = b for unit vectors; the
-    product b a, not a b, makes the sandwich turn a toward b).  For unit vectors
-    |1 + b a|² = 2(1 + a·b).  When a and b are opposite every plane containing a works:
+    R = (1 + b a)/|1 + b a| for unit a, b (the product b a, not a b, makes R a R~ = b);
+    |1 + b a|² = 2(1 + a·b).  Other lengths: with k = |a||b|, R = (k + b a)/√(2k(k + a·b)),
+    so R a R~ = (|a|/|b|) b.  When a and b are opposite every plane containing a works:
     the plane of a and the basis vector least aligned with it is chosen, R = −B (a half
     turn), and ``arbitrary`` is True.  For symbolic vectors the closed form holds wherever
     they are not opposite.
     """
     what = "rotor_between"
-    a = _unit_direction(_as_multivector(a, what), what, conditions)
-    b = _unit_direction(_as_multivector(b, what), what, conditions)
-    s = _simplified(1 + a.scalar_product(b)[0])
+    a, b = _as_multivector(a, what), _as_multivector(b, what)
+    k = _simplified(_length(a, what, conditions) * _length(b, what, conditions))
+    s = _simplified(k + a.scalar_product(b)[0])
     if _vanishes(s) is True:
-        return _half_turn_about(a, what), True
-    k = _simplified(sympy.sqrt(2 * s) / (2 * s))
-    return _tidy((ONE + a * b).scale(k)), False
+        return _half_turn_about(_normalized(a), what), True
+    scale = _simplified(sympy.sqrt(2 * k * s) / (2 * k * s))
+    return _tidy((ONE.scale(k) + b * a).scale(scale)), False
 
 
 def _half_turn_about(a: Multivector, what: str) -> Multivector:

@@ -82,6 +82,9 @@ def decide_zero(coef: Coef, conditions=None, budget: Budget | None = None):
     c = reduce_coef(coef, conditions, budget)
     if c.is_zero():
         return True
+    if conditions:
+        # a nonzero remainder only says "not in the ideal"; decide looks for a real witness
+        return _conditions_reducer(conditions).decide(c, budget)
     if c.is_constant():
         return False
     if not has_opaque_generators(c):

@@ -21,7 +21,14 @@ n1^2 + n2^2 + n3^2 -> 1 (n1^2 is rewritten, a quadric never grows the degree);
 sin(u)^2 -> 1 - cos(u)^2 as in the relations module; a symbol tied to a trig value or to
 a constant is eliminated in its favour (t = cos(theta) turns t into cos(theta),
 theta = pi/2 turns theta into pi/2).  The normal form modulo a Gröbner basis is unique, so
-"reduces to zero" decides membership in the ideal.
+"reduces to zero" decides membership in the ideal.  A nonzero remainder is then made short:
+when the basis is small, the orders that put another condition symbol first (n2, then n3)
+are tried too and the remainder with the fewest terms is kept, so each coefficient of a
+rotated vector keeps the components it naturally has (Rodrigues' formula comes out as
+printed in the books).  Zero under one order is zero under all, so zero tests are unchanged.
+
+Generators whose arguments involve the conditions are rebuilt from reduced arguments when
+those are no longer (sqrt(n1^2 + n2^2 + n3^2) -> 1, cos(theta) given theta = pi/3 -> 1/2).
 
 Semantics: every polynomial of the ideal vanishes wherever the conditions hold, so reduction
 to zero proves an identity on that set.  Generators are treated as independent otherwise,
@@ -199,6 +206,7 @@ class _Basis:
         self.names = tuple(_info(pos).name for pos in self.positions)
         self.is_unit = False
         self.polys = []
+        self._projected = OrderedDict()  # basis copies in contexts with a polynomial's extra generators
         if not self.positions:
             # only constants: consistent iff all are zero
             self.is_unit = any(not REGISTRY.lift(p).is_zero() for p in polys)
@@ -207,7 +215,6 @@ class _Basis:
         local = [REGISTRY.lift(p).project_to_context(self.ctx) for p in polys]
         self.polys = groebner_flint(local, self.ctx, budget)
         self.is_unit = any(g.is_constant() and not g.is_zero() for g in self.polys)
-        self._projected = OrderedDict()
 
     def exprs(self):
         """The basis as sympy Exprs (for messages and inspection)."""
