@@ -136,13 +136,14 @@ def case_rotor(repeats):
         n1, n2, n3, x1, x2, x3 = sp.symbols("n1 n2 n3 x1 x2 x3", real=True)
         q = Quaternion(sp.cos(th / 2), n1 * sp.sin(th / 2), n2 * sp.sin(th / 2), n3 * sp.sin(th / 2))
         out = Quaternion.rotate_point((x1, x2, x3), q)
-        G = sp.groebner([n1**2 + n2**2 + n3**2 - 1], n1, n2, n3, x1, x2, x3, order="grevlex")
+        unit = [n1**2 + n2**2 + n3**2 - 1]
         simplified = []
         for c in out:
             c = sp.trigsimp(sp.expand(c))
             num, den = sp.fraction(sp.together(c))
-            num = G.reduce(sp.expand(num))[1]
-            den = G.reduce(sp.expand(den))[1]
+            # reduce modulo the unit condition, the other symbols and trig as coefficients
+            num = sp.reduced(sp.expand(num), unit, n1, n2, n3, domain="EX")[1]
+            den = sp.reduced(sp.expand(den), unit, n1, n2, n3, domain="EX")[1]
             simplified.append(sp.trigsimp(num / den))
         str(simplified)
 

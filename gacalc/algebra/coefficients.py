@@ -21,6 +21,8 @@ from __future__ import annotations
 from decimal import Decimal
 from fractions import Fraction
 
+import re
+
 import flint
 import sympy
 from sympy.printing.str import StrPrinter
@@ -58,6 +60,8 @@ class _Registry:
         self.names: set[str] = set()
         self.ctx = flint.fmpq_mpoly_ctx.get(("_one",), _ORDER)
         self.gens = self.ctx.gens()
+        self._display_key = None
+        self._display_ctx = None
 
     def generator(self, expr, kind="other", trig=None, root=None):
         """The flint polynomial of the generator for ``expr``, registering it if new."""
@@ -86,6 +90,23 @@ class _Registry:
         if p.context() is self.ctx:
             return p
         return p.project_to_context(self.ctx)
+
+    def display(self, p):
+        """p in a context whose variables are sorted by name, so that printed term order
+        depends on the symbols alone, not on the order a process first met them."""
+        key = len(self.infos)
+        if self._display_key != key:
+            names = sorted((i.name for i in self.infos), key=_display_order)
+            self._display_ctx = flint.fmpq_mpoly_ctx.get(("_one",) + tuple(names), _ORDER)
+            self._display_key = key
+        return p.project_to_context(self._display_ctx)
+
+
+def _display_order(name: str):
+    """Plain symbols first, then functions and radicals; digits compare as numbers (a2 < a10)."""
+    compound = not name.replace("_", "").isalnum()
+    parts = re.split(r"(\d+)", name)
+    return (compound, [int(x) if x.isdigit() else x for x in parts])
 
 
 REGISTRY = _Registry()
@@ -268,12 +289,12 @@ class Coef:
         if self.expr is not None:
             return ascii_text(self.expr)
         num, den = self._parts()
-        t = str(num)
+        t = str(REGISTRY.display(num))
         if den is None:
             return t
         if len(num) > 1:
             t = f"({t})"
-        d = str(den)
+        d = str(REGISTRY.display(den))
         if len(den) > 1 or "*" in d or "^" in d:
             d = f"({d})"
         return f"{t}/{d}"

@@ -224,37 +224,35 @@ def rotor(B_or_n, theta, conditions=()) -> Multivector:
     return Multivector({0: sympy.cos(half)}) - B.scale(sympy.sin(half))
 
 
-def _length(v: Multivector, what: str, conditions):
-    """|v| for a nonzero vector v: 1 when v is known to be unit, else sqrt(v.v)."""
+def _unit_direction(v: Multivector, what: str, conditions) -> Multivector:
+    """v itself when it is known to be unit, else v/|v|; AlgebraError unless a nonzero vector."""
     if v.grades() != {1}:
         got = "0" if v.is_zero() else _grade_words(v.grades())
         raise AlgebraError(f"{what} needs two nonzero vectors; got {got}")
     if _unit_verdict(v, conditions) is True:
-        return sympy.Integer(1)
-    n2 = _simplified(v.norm2())
-    if _vanishes(n2) is True:
+        return v
+    if _vanishes(v.norm2()) is True:
         raise AlgebraError(f"{what} needs two nonzero vectors; got 0")
-    return _simplified(sympy.sqrt(n2))
+    return _normalized(v)
 
 
 def rotor_between(a, b, conditions=()):
     """(R, arbitrary): the rotor in the plane of a and b that turns the direction of a into b's.
 
-    R = (1 + b a)/|1 + b a| for unit a, b (the product b a, not a b, makes R a R~ = b);
-    |1 + b a|² = 2(1 + a·b).  Other lengths: with k = |a||b|, R = (k + b a)/√(2k(k + a·b)),
-    so R a R~ = (|a|/|b|) b.  When a and b are opposite every plane containing a works:
-    the plane of a and the basis vector least aligned with it is chosen, R = −B (a half
-    turn), and ``arbitrary`` is True.  For symbolic vectors the closed form holds wherever
-    they are not opposite.
+    R = (1 + b a)/|1 + b a| with a, b normalised first (the product b a, not a b, makes
+    R a R~ = b for unit vectors); for unit vectors |1 + b a|² = 2(1 + a·b).  When a and b
+    are opposite every plane containing a works: the plane of a and the basis vector least
+    aligned with it is chosen, R = −B (a half turn), and ``arbitrary`` is True.  For
+    symbolic vectors the closed form holds wherever they are not opposite.
     """
     what = "rotor_between"
-    a, b = _as_multivector(a, what), _as_multivector(b, what)
-    k = _simplified(_length(a, what, conditions) * _length(b, what, conditions))
-    s = _simplified(k + a.scalar_product(b)[0])
+    a = _unit_direction(_as_multivector(a, what), what, conditions)
+    b = _unit_direction(_as_multivector(b, what), what, conditions)
+    s = _simplified(1 + a.scalar_product(b)[0])
     if _vanishes(s) is True:
-        return _half_turn_about(_normalized(a), what), True
-    scale = _simplified(sympy.sqrt(2 * k * s) / (2 * k * s))
-    return _tidy((ONE.scale(k) + b * a).scale(scale)), False
+        return _half_turn_about(a, what), True
+    k = _simplified(sympy.sqrt(2 * s) / (2 * s))
+    return _tidy((ONE + b * a).scale(k)), False
 
 
 def _half_turn_about(a: Multivector, what: str) -> Multivector:
