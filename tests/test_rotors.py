@@ -224,6 +224,7 @@ def test_rotor_between_maps_a_to_b():
 
 
 def test_rotor_between_directions_of_non_unit_vectors():
+    # common practice: only directions matter; e1 -> e2 is the quarter turn rotor(e12, pi/2)
     R, arbitrary = rotor_between(e1, 3 * e2)
     assert not arbitrary
     assert same(rotate(R, e1), e2)
@@ -251,6 +252,7 @@ def test_rotor_between_opposite_vectors_is_flagged():
 
 
 def test_rotor_between_rejects_zero():
+    # a zero vector has no direction
     with pytest.raises(AlgebraError, match="nonzero vectors"):
         rotor_between(e1, Multivector())
     with pytest.raises(AlgebraError, match="nonzero vectors"):
@@ -294,6 +296,7 @@ def test_angle_of_known_rotors():
 
 
 def test_plane_of_identity_is_an_error():
+    # common practice: +-1 rotates nothing, so no plane or axis is defined
     with pytest.raises(AlgebraError, match="no plane"):
         rotor_plane(ONE)
     with pytest.raises(AlgebraError, match="no plane"):
@@ -321,6 +324,8 @@ def test_log_of_rotor_is_minus_half_angle_bivector():
 
 
 def test_log_special_cases():
+    # common practice: exp(pi B) = cos(pi) + B sin(pi) = -1 for every unit bivector B, so
+    # log(-1) needs a choice (ours: e12); exp(pi/2 B) = B gives the half-turn rotor B
     assert log(ONE).is_zero()
     assert same(log(-ONE), e12.scale(sympy.pi))  # documented choice
     assert same(exp(log(-ONE)), -ONE)
@@ -355,6 +360,7 @@ def test_sqrt_squares_back():
 
 
 def test_sqrt_symbolic_squares_back():
+    # common practice: sqrt(R)^2 = R, here exactly for a symbolic angle
     R = rotor(e23, theta)
     S = sqrt(R)
     assert same(S * S, R)

@@ -132,6 +132,7 @@ def test_corner_cube_reverses_every_direction():
 
 
 def test_reflect_rejects_non_vectors():
+    # the mirror is given by its normal vector (DESIGN.md); anything else is refused plainly
     with pytest.raises(AlgebraError, match="normal vector"):
         reflect(e1, e12)
     with pytest.raises(AlgebraError, match="normal vector"):
@@ -197,6 +198,7 @@ def test_classify_versor():
 
 
 def test_apply_versor_rejects_mixed_parity():
+    # common practice: versors are purely even or purely odd
     with pytest.raises(AlgebraError, match="purely even or purely odd"):
         apply_versor(1 + e1, e2)
     with pytest.raises(AlgebraError, match="nonzero"):
@@ -261,6 +263,7 @@ def test_project_symbolic_onto_plane():
 
 
 def test_project_rejects_non_blades():
+    # (x _| B) B^-1 projects onto a subspace only when B is a blade
     with pytest.raises(AlgebraError, match="blade"):
         project(e1, 1 + e12)
     with pytest.raises(AlgebraError, match="blade"):
@@ -310,4 +313,5 @@ def test_rejection_from_plane_is_wedge_formula(x, u, v):
 
 
 def test_fraction_inputs_work():
+    # Householder (1958): the mirror with normal e1 flips the e1 component; Fraction input
     assert same(reflect(vector(Fraction(1, 2), 0, 0), e1), vector(Fraction(-1, 2), 0, 0))

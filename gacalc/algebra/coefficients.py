@@ -67,7 +67,7 @@ class _Registry:
         """The flint polynomial of the generator for ``expr``, registering it if new."""
         idx = self.by_expr.get(expr)
         if idx is None:
-            name = ascii_text(expr)
+            name = _as_factor(ascii_text(expr))
             if name in self.names or not name.isascii():
                 name = f"_g{len(self.infos)}_{abs(hash(name)) % 10**6}"
             idx = len(self.infos)
@@ -100,6 +100,24 @@ class _Registry:
             self._display_ctx = flint.fmpq_mpoly_ctx.get(("_one",) + tuple(names), _ORDER)
             self._display_key = key
         return p.project_to_context(self._display_ctx)
+
+
+def _as_factor(text: str) -> str:
+    """Generator text that stays one factor when printed with ^k or *: a name or a call, else
+    parenthesised (2^(1/4) -> (2^(1/4)), so its cube prints as (2^(1/4))^3)."""
+    m = re.match(r"[A-Za-z_][A-Za-z0-9_]*", text)
+    if m and m.end() == len(text):
+        return text
+    if m and text[m.end()] == "(" and text.endswith(")"):
+        depth = 0
+        for i, ch in enumerate(text[m.end():], m.end()):
+            depth += ch == "("
+            depth -= ch == ")"
+            if depth == 0:
+                if i == len(text) - 1:
+                    return text
+                break
+    return f"({text})"
 
 
 def _display_order(name: str):

@@ -131,39 +131,12 @@ def _vanishes(expr, conditions=()):
     if expr.has(sympy.Float) and expr.is_number:
         return abs(complex(sympy.N(expr))) < FLOAT_TOLERANCE
     if conditions:
-        try:
-            verdict = is_zero(mv, conditions)
-        except ImportError:
-            # the side-condition reducer is not there yet
-            verdict = True if _in_condition_ideal(expr, conditions) else None
+        verdict = is_zero(mv, conditions)
         if verdict is True:
             return True
     if not expr.free_symbols:
         return verdict
     return None if verdict is False else verdict  # symbolic: "not identically zero" is not "nonzero"
-
-
-def _in_condition_ideal(expr, conditions) -> bool:
-    """Stand-in for gacalc.simplify's side-condition reducer until it exists: is the
-    numerator of expr (trig relations applied) in the ideal of the conditions?  Decided by
-    reduction modulo sympy's Gröbner basis of the conditions (sin, cos, sqrt are generators)."""
-    from gacalc.algebra.coefficients import from_expr
-    from gacalc.simplify import reduce_coef
-
-    conds = [c if isinstance(c, sympy.Basic) else sympy.Integer(c) for c in conditions]
-    conds = [c for c in conds if c != 0]
-    if not conds:
-        return False
-    try:
-        numer = sympy.numer(sympy.together(reduce_coef(from_expr(expr)).to_expr()))
-        gens = set(sympy.Poly(numer).gens)
-        for c in conds:
-            gens |= set(sympy.Poly(c).gens)
-        gens = sorted(gens, key=sympy.default_sort_key)
-        basis = sympy.groebner(conds, *gens, order="grevlex")
-        return basis.reduce(sympy.expand(numer))[1] == 0
-    except (sympy.PolynomialError, sympy.GeneratorsNeeded, ValueError, TypeError):
-        return False
 
 
 def _unit_verdict(mv: Multivector, conditions=()):

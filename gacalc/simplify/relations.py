@@ -257,7 +257,12 @@ def has_opaque_generators(c: Coef) -> bool:
         return True  # pi, E: transcendental, but cos(pi/5) and friends relate to them
     if len(roots) > 1 or any(r.root[0].is_constant() for r in roots):
         return True
-    return False
+    families = {}
+    for i in infos:
+        if i.kind in ("cos", "sin"):
+            families.setdefault(i.trig[1], set()).add(i.trig[0])
+    # a family left over several angles (multiple too large to expand) is not canonical
+    return any(len(qs) > 1 for qs in families.values())
 
 
 def sine_form(p, budget=None) -> Coef:
