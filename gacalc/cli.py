@@ -61,6 +61,9 @@ def build_parser() -> argparse.ArgumentParser:
                         help="no colours or syntax highlighting (also when NO_COLOR is set)")
     parser.add_argument("--budget", type=float, metavar="SECONDS", default=None,
                         help="time allowed for simplifying one result (default 10)")
+    parser.add_argument("--emit-dir", metavar="DIR", default=None,
+                        help="write every emit of the scripts to a file in DIR (NAME.tex, "
+                             "NAME.py, NAME.c; 'to \"file\"' paths resolve under DIR)")
     parser.add_argument("--version", action="version", version=f"gacalc {__version__}")
     return parser
 
@@ -136,6 +139,11 @@ def main(argv: list[str] | None = None) -> int:
     args = parser.parse_args(argv)
     if args.budget is not None and not args.budget > 0:
         parser.error("--budget must be a positive number of seconds")
+    if args.emit_dir is not None:
+        try:
+            os.makedirs(args.emit_dir, exist_ok=True)
+        except OSError as error:
+            parser.error(f"--emit-dir: cannot create {args.emit_dir}: {error.strerror}")
 
     # The REPL needs a terminal on both sides; otherwise typed or piped text is a script.
     terminal = all(stream is not None and stream.isatty() for stream in (sys.stdin, sys.stdout))
@@ -156,7 +164,7 @@ def main(argv: list[str] | None = None) -> int:
         args.files, args.titles = _demo_paths(parser, args.files)
     options = RunOptions(unicode=unicode, color=wants_color(sys.stdout, not args.no_color),
                          echo=args.echo or args.demo, width=_terminal_width(sys.stdout),
-                         budget=args.budget)
+                         budget=args.budget, emit_dir=args.emit_dir)
     if not (args.files or args.statements):
         args.files = ["-"]          # statements piped on standard input
     try:

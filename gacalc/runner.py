@@ -158,6 +158,7 @@ class RunOptions:
     echo: bool = False          # print the script's own lines before their results
     width: int = 78
     budget: float | None = None
+    emit_dir: str | None = None  # every emit writes a file there instead of the screen
 
 
 @dataclass
@@ -195,6 +196,7 @@ class ScriptRunner:
         from gacalc.language import Session
 
         return Session(unicode=self.options.unicode, budget=self.options.budget,
+                       emit_dir=self.options.emit_dir,
                        width=self.options.width)
 
     # Output ---------------------------------------------------------------------------

@@ -11,6 +11,7 @@ between runs; medians are reported.  Lines printed (the last one is the summary)
     startup: X × import sympy    whole-process time of `gacalc -e '1'`
     latency median: X ms (...)   typical REPL statements through the Session API
     memory: X × import sympy     peak RSS of running every demo script
+    rotor kernel ops (...)       operation counts of the emitted R x R~ kernel (export)
     min ratio: X                 the smallest product ratio for k = 3..5
 
 Usage: python scripts/bench.py [--quick]
@@ -299,6 +300,11 @@ def main():
     print("latency median: " + ", ".join(f"{label} {ms:.1f} ms" for label, ms in lat.items()))
     ours, base = case_memory()
     print(f"memory: {ours/base:.2f} × import sympy   (demos {ours/1024:.0f} MiB, import sympy {base/1024:.0f} MiB)")
+    from gacalc.export import rotor_kernel_counts
+
+    counts = rotor_kernel_counts()
+    print("rotor kernel ops (sympy.count_ops): " + "; ".join(
+        f"{form} " + " ".join(f"{op}={n}" for op, n in sorted(ops.items())) for form, ops in counts.items()))
     small = [ratios[k] for k in ratios if k >= 3]
     print(f"min ratio: {min(small):.1f}")
 

@@ -453,6 +453,15 @@ def _coerce(x):
     return NotImplemented
 
 
+def as_multivector(x, what: str) -> Multivector:
+    """x as a Multivector (a plain scalar becomes one); AlgebraError naming ``what`` otherwise."""
+    if isinstance(x, Multivector):
+        return x
+    if isinstance(x, (Integral, Fraction, sympy.Expr)) and not isinstance(x, bool):
+        return Multivector.scalar(x)
+    raise AlgebraError(f"{what} needs a multivector; got {type(x).__name__}")
+
+
 def blade(indices: str | tuple = "") -> Multivector:
     """The basis blade of an index string: blade('21') = -e12, blade('11') = 1, blade('312') = e123."""
     word = tuple(int(ch) for ch in indices) if isinstance(indices, str) else tuple(indices)
@@ -485,6 +494,6 @@ e23, e31, e12 = (Multivector({k: 1}) for k in (4, 5, 6))
 I = Multivector({7: 1})
 
 __all__ = [
-    "AlgebraError", "NotInvertibleError", "Multivector", "blade", "vector", "bivector", "cross",
+    "AlgebraError", "NotInvertibleError", "Multivector", "as_multivector", "blade", "vector", "bivector", "cross",
     "ONE", "e1", "e2", "e3", "e23", "e31", "e12", "I", "BASIS_INDICES",
 ]

@@ -20,7 +20,7 @@ import sympy
 from sympy.algebras import Quaternion
 
 from .basis import BASIS_NAMES
-from .multivector import AlgebraError, Multivector
+from .multivector import as_multivector as _as_multivector, AlgebraError, Multivector
 
 _HALF = sympy.Rational(1, 2)
 _FLOAT_TOLERANCE = 1e-9  # for checking that a floating-point matrix is a rotation
@@ -62,14 +62,6 @@ def _as_matrix(m, shape: tuple[int, int], what: str) -> sympy.Matrix:
     if len(rows) != shape[0] or any(len(r) != shape[1] for r in rows):
         raise AlgebraError(f"{what} needs a {shape[0]}x{shape[1]} matrix")
     return sympy.Matrix([[_entry(x, what) for x in r] for r in rows])
-
-
-def _as_multivector(a, what: str) -> Multivector:
-    if isinstance(a, Multivector):
-        return a
-    if isinstance(a, (str, bytes, bool)) or not isinstance(a, (Integral, Fraction, sympy.Expr)):
-        raise AlgebraError(f"{what} needs a multivector")
-    return Multivector.scalar(a)
 
 
 def _is_exactly_zero_odd(a: Multivector) -> bool:

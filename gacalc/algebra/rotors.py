@@ -29,7 +29,7 @@ from fractions import Fraction
 
 import sympy
 
-from .multivector import ONE, AlgebraError, I, Multivector, e12
+from .multivector import as_multivector as _as_multivector, ONE, AlgebraError, I, Multivector, e12
 from .versors import EVEN, _grade_words, classify_versor
 
 FLOAT_TOLERANCE = 1e-9
@@ -37,14 +37,6 @@ FLOAT_TOLERANCE = 1e-9
 
 # ---------------------------------------------------------------------------
 # Argument handling
-
-
-def _as_multivector(x, what: str) -> Multivector:
-    if isinstance(x, Multivector):
-        return x
-    if isinstance(x, (int, Fraction, sympy.Expr)):
-        return Multivector.scalar(x)
-    raise AlgebraError(f"{what} needs a multivector; got {type(x).__name__}")
 
 
 def _scalar_arg(x, what: str, name: str):

@@ -20,17 +20,9 @@ from fractions import Fraction
 
 import sympy
 
-from .multivector import AlgebraError, Multivector, NotInvertibleError
+from .multivector import as_multivector as _as_multivector, AlgebraError, Multivector, NotInvertibleError
 
 EVEN, ODD = "even", "odd"
-
-
-def _as_multivector(x, what: str) -> Multivector:
-    if isinstance(x, Multivector):
-        return x
-    if isinstance(x, (int, Fraction, sympy.Expr)):
-        return Multivector.scalar(x)
-    raise AlgebraError(f"{what} needs a multivector; got {type(x).__name__}")
 
 
 def _grade_words(grades) -> str:

@@ -59,14 +59,17 @@ class Session:
 
     Options: ``unicode`` (display mode of result texts), ``budget`` (seconds per
     simplification), ``width`` (line width of printed values), ``base_dir`` (where
-    relative paths of typed input resolve; default: the current directory)."""
+    relative paths of typed input resolve; default: the current directory), ``emit_dir``
+    (when set, every emit writes a file there: ``to "file"`` paths resolve under it, and an
+    emit without ``to`` goes to NAME.tex / .py / .c)."""
 
     def __init__(self, *, unicode: bool = False, budget: float | None = None,
-                 width: int = 78, base_dir: str | None = None):
+                 width: int = 78, base_dir: str | None = None, emit_dir: str | None = None):
         self.unicode = unicode
         self.budget = DEFAULT_BUDGET if budget is None else budget
         self.width = width
         self.base_dir = base_dir
+        self.emit_dir = emit_dir
         self._state = State()
         self._working: State | None = None
         self.current_span: Span | None = None   # statement being run (for interrupts)
@@ -444,10 +447,16 @@ class Session:
         except export.ExportError as error:
             raise GacalcError(f"emit {statement.target}: {error}", statement.span) from None
         path = None
-        if statement.path is not None:
+        if self.emit_dir is not None:
+            relative = statement.path or f"{name or 'gacalc_value'}{_EMIT_SUFFIX[statement.target]}"
+            path = os.path.abspath(os.path.join(self.emit_dir, os.path.expanduser(relative)))
+        elif statement.path is not None:
             path = _resolve(statement.path, statement, context)
+        if path is not None:
             try:
                 export.write_atomically(path, code if code.endswith("\n") else code + "\n")
+            except export.ExportError as error:
+                raise GacalcFileError(str(error), statement.path_span or statement.span) from None
             except OSError as error:
                 raise GacalcFileError(f"cannot write {path}: {_os_reason(error)}",
                                       statement.path_span) from None
@@ -632,6 +641,9 @@ def _report_text(report, mode: str) -> str:
             except TypeError:
                 continue
     return str(report)
+
+
+_EMIT_SUFFIX = {"latex": ".tex", "python": ".py", "numpy": ".py", "c": ".c"}
 
 
 def _resolve(path: str, statement: S.Statement, context: _RunContext) -> str:
