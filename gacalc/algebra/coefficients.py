@@ -24,6 +24,7 @@ from fractions import Fraction
 import re
 
 import flint
+from flint.utils.flint_exceptions import DomainError as FlintDomainError
 import sympy
 from sympy.printing.str import StrPrinter
 
@@ -222,9 +223,6 @@ class Coef:
         """A plain rational number (no generators)."""
         return self.expr is None and self.den is None and self.num.is_constant()
 
-    def is_polynomial(self) -> bool:
-        return self.expr is None and self.den is None
-
     # -- arithmetic ----------------------------------------------------------
 
     def __add__(self, other: "Coef") -> "Coef":
@@ -337,11 +335,12 @@ def poly_to_expr(p):
 # sympy Expr -> Coef
 
 
+# the other trigonometric functions as quotients of cos and sin: (numerator, denominator)
 _TRIG_REWRITES = {
-    sympy.tan: lambda a: (sympy.sin(a), sympy.cos(a), False),
-    sympy.cot: lambda a: (sympy.cos(a), sympy.sin(a), False),
-    sympy.sec: lambda a: (sympy.Integer(1), sympy.cos(a), False),
-    sympy.csc: lambda a: (sympy.Integer(1), sympy.sin(a), False),
+    sympy.tan: lambda a: (sympy.sin(a), sympy.cos(a)),
+    sympy.cot: lambda a: (sympy.cos(a), sympy.sin(a)),
+    sympy.sec: lambda a: (sympy.Integer(1), sympy.cos(a)),
+    sympy.csc: lambda a: (sympy.Integer(1), sympy.sin(a)),
 }
 
 
@@ -379,8 +378,13 @@ def from_expr(expr) -> Coef:
         return trig(type(expr).__name__, expr.args[0])
     for fn, rewrite in _TRIG_REWRITES.items():
         if isinstance(expr, fn):
-            num, den, _ = rewrite(expr.args[0])
+            num, den = rewrite(expr.args[0])
             return from_expr(num) / from_expr(den)
+    if isinstance(expr, (sympy.atan2, sympy.atan)) and not expr.free_symbols:
+        # atan(z) is atan2(z, 1); sympy writes atan2(y, x) with x > 0 as atan(y/x)
+        exact = _exact_atan2(*(expr.args if isinstance(expr, sympy.atan2) else (expr.args[0], 1)))
+        if exact is not None:
+            return exact
     if isinstance(expr, sympy.exp):
         arg = canonical_expr(expr.args[0])
         return Coef(REGISTRY.generator(sympy.exp(arg), "other"))
@@ -418,6 +422,10 @@ def _from_pow(expr) -> Coef:
             if not (gexpr.is_Pow and gexpr.args[1] == sympy.Rational(1, n) and gexpr.args[0] == value):
                 return from_expr(gexpr) ** p  # sympy pulled out a factor: 8^(1/2) = 2 sqrt(2)
         else:
+            if n == 2:
+                exact = _exact_square_root(bc)
+                if exact is not None:
+                    return exact**p
             gexpr = sympy.Pow(bc.to_expr(), sympy.Rational(1, n), evaluate=False)
         g = Coef(REGISTRY.generator(gexpr, "root", root=(bc, n)))
         return g**p
@@ -426,6 +434,59 @@ def _from_pow(expr) -> Coef:
     if canon.is_Pow:
         return Coef(REGISTRY.generator(canon, "other"))
     return from_expr(canon)
+
+
+def _exact_square_root(bc: Coef):
+    """sqrt of a perfect square q^2 (also over half angles: 1/2 - cos(u)/2 = sin(u/2)^2):
+    q itself when q is a number of known sign, else |q| (a radical of q^2).  None if
+    the base is not a perfect square."""
+    if bc.expr is not None:
+        return None
+    from gacalc.simplify.relations import over_half_angles, sine_form
+
+    half = over_half_angles(bc)
+    halves = [] if half is None else [half, sine_form(half.num) / (Coef(half.den) if half.den is not None else Coef.constant(1))]
+    for cand in [bc, *halves]:
+        if cand is None or cand.expr is not None:
+            continue
+        num, den = cand._parts()
+        try:
+            q = Coef(num.sqrt()) / (Coef(den.sqrt()) if den is not None else Coef.constant(1))
+        except FlintDomainError:
+            continue
+        q_expr = q.to_expr()
+        if not q_expr.free_symbols:
+            value = sympy.N(q_expr, 30)
+            if value.is_number and abs(value) > 1e-25:
+                return q if value > 0 else -q
+            continue
+        return Coef(REGISTRY.generator(sympy.Abs(q_expr), "root", root=(bc, 2)))
+    return None
+
+
+def _exact_atan2(y, x):
+    """atan2(k sin u, k cos u) = u for a number u in (-pi, pi) and a number k > 0, proved by
+    exact arithmetic (y cos u - x sin u = 0) plus a numeric sign with a wide margin."""
+    yc, xc = from_expr(y), from_expr(x)
+    angles = {info.trig[0] * info.trig[1] for info in generators_of(yc) + generators_of(xc)
+              if info.kind in ("cos", "sin")}
+    shifted = {u + k * sympy.pi for u in angles for k in (-2, -1, 0, 1, 2)}
+    for u in sorted(shifted, key=sympy.default_sort_key):
+        if u.free_symbols or not abs(sympy.N(u, 30)) < sympy.pi.evalf(30) - sympy.Float(1e-20):
+            continue
+        c, sn = trig("cos", u), trig("sin", u)
+        if not _vanishes(yc * c - xc * sn):
+            continue
+        k = sympy.N((xc * c + yc * sn).to_expr(), 30)
+        if k.is_number and k > 1e-20:
+            return from_expr(u)
+    return None
+
+
+def _vanishes(c: Coef) -> bool:
+    from gacalc.simplify import decide_zero
+
+    return decide_zero(c) is True
 
 
 def trig(kind: str, arg) -> Coef:

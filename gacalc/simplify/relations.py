@@ -182,10 +182,6 @@ def reduce_poly_relations(p, budget=None, companions=()) -> Coef:
     return out
 
 
-def _term_count(c: Coef) -> int:
-    return len(c.num) + (len(c.den) if c.den is not None else 0)
-
-
 def merge_half_angles(p, budget=None):
     """For display: products of half angles become full angles.  Returns (Coef, merged).
 
@@ -296,3 +292,27 @@ def shortest_display(p, budget=None) -> Coef:
         return merged
     alt = sine_form(merged.num, budget)
     return alt if len(REGISTRY.lift(alt.num)) < len(REGISTRY.lift(merged.num)) else merged
+
+
+def over_half_angles(c: Coef):
+    """The coefficient rewritten over the half of each single-angle trig family (cos u ->
+    1 - 2 sin(u/2)^2 ...), reduced; None when it has no trig family.  Lets a square root
+    see that 1/2 - cos(u)/2 is the square sin(u/2)^2."""
+    if c.expr is not None:
+        return None
+    num, den = c._parts()
+    companions = []
+    for p in (num, den):
+        if p is None:
+            continue
+        for u, by_q in _families(p).items():
+            if len(by_q) == 1:
+                (q,) = by_q
+                companions.append(trig("cos", q * u / 2).num)
+    if not companions:
+        return None
+    parts = []
+    for p in (num, den):
+        if p is not None:
+            parts.append(reduce_poly_relations(p, None, companions=companions))
+    return parts[0] if len(parts) == 1 else parts[0] / parts[1]
