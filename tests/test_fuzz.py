@@ -49,7 +49,8 @@ def run_and_render(text: str, workdir) -> list:
             assert result is results[-1], "an error must end the results"
         else:
             rendered = result.text
-            result.render(unicode=True)
+            assert not rendered.startswith("internal error"), (text, rendered)
+            result.render(unicode=True)          # raises if a printer has a bug
         assert isinstance(rendered, str)
     return results
 

@@ -26,6 +26,8 @@ def _program():
 @pytest.mark.skipif(sys.platform == "win32", reason="pseudo-terminals are POSIX")
 def test_interrupt_keeps_the_session(tmp_path):
     program, args = _program()
+    long_script = tmp_path / "long.gac"
+    long_script.write_text("multivector P\n" + "big = P^7;\n" * 4000, encoding="utf-8")
     env = dict(os.environ, XDG_DATA_HOME=str(tmp_path / "data"),
                XDG_STATE_HOME=str(tmp_path / "state"), TERM="xterm",
                PROMPT_TOOLKIT_NO_CPR="1",   # the pty does not answer cursor queries
@@ -45,9 +47,9 @@ def test_interrupt_keeps_the_session(tmp_path):
         child.send("multivector M\r")
         child.expect("M123")
         child.expect("gac>")
-        # The 24th power of a general multivector takes many seconds (its coefficients
-        # are polynomials with millions of terms); ';' keeps it from printing.
-        child.send("big = M^24;\r")
+        # One statement that runs for many seconds within every size limit: a script of
+        # thousands of powers of a general multivector, read by `use`.
+        child.send(f'use "{long_script}"\r')
         # the prompt hands the line over (it switches bracketed paste off as it leaves)
         child.expect_exact(["\x1b[?2004l", pexpect.TIMEOUT], timeout=10)
         time.sleep(1.0)
@@ -66,4 +68,4 @@ def test_interrupt_keeps_the_session(tmp_path):
         child.close(force=True)
     assert child.exitstatus == 0
     history = tmp_path / "data" / "gacalc" / "history"
-    assert "big = M^24;" in history.read_text(encoding="utf-8")
+    assert f'use "{long_script}"' in history.read_text(encoding="utf-8")

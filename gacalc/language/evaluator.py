@@ -26,11 +26,13 @@ import sympy
 from gacalc.algebra import AlgebraError, Multivector, NotInvertibleError, blade
 from gacalc.printing.text import describe_value, scalar_text
 
+from . import limits
 from . import syntax as S
 from . import tokens as T
 from .builtins import BUILTINS
 from .errors import (GacalcError, GacalcLimitError, GacalcMathError, GacalcNameError,
                      GacalcTypeError, Span)
+from .watchdog import StatementClock
 
 MAX_EXPONENT = 1000
 MAX_CALL_DEPTH = 40
@@ -112,12 +114,14 @@ def is_quaternion(value) -> bool:
 class Evaluator:
     """Evaluates expressions against a (scratch) State; collects notes."""
 
-    def __init__(self, state: State, extra_conditions: list | None = None):
+    def __init__(self, state: State, extra_conditions: list | None = None,
+                 clock: StatementClock | None = None):
         self.state = state
         self.extra_conditions = list(extra_conditions or ())
         self.notes: list[tuple[str, Span | None]] = []
         self.call_depth = 0
         self.depth = 0
+        self.clock = clock
 
     # Notes ----------------------------------------------------------------------
     def note(self, text: str, span: Span | None = None):
@@ -128,6 +132,8 @@ class Evaluator:
     def evaluate(self, node: S.Node, frame: dict | None = None):
         self.depth += 1
         try:
+            if self.clock is not None:
+                self.clock.check()      # the statement's time budget, between nodes
             if self.depth > MAX_EVAL_DEPTH:
                 raise GacalcLimitError("expression nested too deeply to evaluate", node.span)
             method = getattr(self, "_eval_" + type(node).__name__)
@@ -199,7 +205,10 @@ class Evaluator:
 
     def add(self, left, right, sign: int, span: Span):
         if is_multivector(left) and is_multivector(right):
-            return left + right if sign > 0 else left - right
+            limits.check_sum(left, right, span)
+            total = left + right if sign > 0 else left - right
+            limits.check_terms(total, span, "this sum")
+            return total
         if is_matrix(left) and is_matrix(right) and left.shape == right.shape:
             return left + right if sign > 0 else left - right
         if is_quaternion(left) and is_quaternion(right):
@@ -220,6 +229,7 @@ class Evaluator:
 
     def multiply(self, left, right, span: Span):
         if is_multivector(left) and is_multivector(right):
+            limits.check_product(left, right, span)
             return left * right
         left_scalar = _as_scalar(left)
         right_scalar = _as_scalar(right)
@@ -248,7 +258,7 @@ class Evaluator:
             if not is_multivector(left):
                 raise GacalcTypeError(f"cannot divide {describe_value(left)} by a multivector",
                                       span)
-            return left * self.inverse(right, span)
+            return self.multiply(left, self.inverse(right, span), span)
         raise GacalcTypeError(f"cannot divide by {describe_value(right)}", span)
 
     def inverse(self, value, span: Span):
@@ -261,6 +271,9 @@ class Evaluator:
             raise GacalcTypeError(f"cannot invert {describe_value(value)}", span)
         if value.is_zero():
             raise GacalcMathError("division by zero: 0 has no inverse", span)
+        if not value.is_scalar():
+            # A^-1 = conj(A) (a - b I) / (a^2 + b^2) with a + b I = A conj(A)
+            limits.check_chain([value, value, value, value], span, "this inverse")
         try:
             result, condition = value.inverse_with_condition()
         except NotInvertibleError as error:
@@ -277,13 +290,16 @@ class Evaluator:
                 raise GacalcTypeError(f"the {_WEDGE_NAMES[node.op]} needs multivectors, not "
                                       f"{describe_value(value)}", operand.span)
         method = _WEDGE_METHODS[node.op]
+        what = f"this {_WEDGE_NAMES[node.op]}"
         if node.op == T.LCONTRACT:          # a _| b _| C = a _| (b _| C)
             result = values[-1]
             for value in reversed(values[:-1]):
+                limits.check_product(value, result, node.span, what)
                 result = getattr(value, method)(result)
             return result
         result = values[0]
         for value in values[1:]:
+            limits.check_product(result, value, node.span, what)
             result = getattr(result, method)(value)
         return result
 
@@ -320,6 +336,8 @@ class Evaluator:
         elif exponent.is_Number:
             raise GacalcTypeError("exponents are exact numbers or scalar symbols", span)
         if is_multivector(base) and (base.is_scalar() or base.is_zero()):
+            if exponent.is_Integer and abs(exponent) >= 2:
+                limits.check_power(base, abs(int(exponent)), node.span)
             scalar_base = base.scalar_part()
             _check_result_digits(scalar_base, exponent, node.span)
             if scalar_base == 0 and exponent.is_negative:
@@ -343,8 +361,8 @@ class Evaluator:
         if exponent.is_Integer:
             n = int(exponent)
             if n < 0:
-                return self.inverse(base, node.span) ** (-n)
-            return base ** n
+                base, n = self.inverse(base, node.span), -n
+            return self.integer_power(base, n, node.span)
         if base.grades() <= {0, 2}:
             from gacalc.algebra import rotors
 
@@ -353,6 +371,25 @@ class Evaluator:
             return rotors.power(base, exponent, conditions)
         raise GacalcTypeError("a fractional power needs a rotor (an even multivector)",
                               node.base.span)
+
+    def integer_power(self, base, n: int, span: Span):
+        """base^n (n >= 0) by repeated squaring, each product checked against the limits."""
+        if n >= 2:
+            limits.check_power(base, n, span)   # bounds the result and every square
+        result, square = None, base
+        while n:
+            if n & 1:
+                result = square if result is None else self._power_step(result, square, span)
+            n >>= 1
+            if n:
+                square = self._power_step(square, square, span)
+        return result if result is not None else Multivector.scalar(1)
+
+    def _power_step(self, left, right, span: Span):
+        if is_multivector(left) and is_multivector(right):
+            limits.check_product(left, right, span, "this power", result_bound=False)
+            return left * right
+        return self.multiply(left, right, span)
 
     # Calls -------------------------------------------------------------------------
     def _eval_Call(self, node: S.Call, frame):
@@ -400,6 +437,7 @@ class Evaluator:
             raise GacalcTypeError(f"{function.name} takes {function.arity_text()}, not "
                                   f"{count}: {function.signature}", node.span)
         args = [self.evaluate(arg, frame) for arg in node.args]
+        limits.check_call(function.name, args, node.span)
         context = CallContext(self, function, node, args)
         try:
             result = function.impl(context, *args)
@@ -415,6 +453,7 @@ class Evaluator:
             raise GacalcMathError(message, node.span) from None
         if is_multivector(result) and result.is_scalar():
             _check_finite(result.scalar_part(), node.span)
+        limits.check_value(result, node.span, f"the result of {function.name}")
         return result
 
     def call_user(self, function: UserFunction, node: S.Call, frame):

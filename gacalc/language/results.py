@@ -45,7 +45,19 @@ class Result:
 
     @property
     def text(self) -> str:
-        return self.render(self.unicode)
+        """The rendered result; a bug in a printer becomes one line naming the log file
+        with its traceback (front-ends print results outside the session's guard)."""
+        try:
+            return self.render(self.unicode)
+        except Exception as error:       # noqa: BLE001 - our bug, reported, not raised
+            from gacalc.diagnostics import summary, write_internal_error
+
+            where = ""
+            if self.span is not None:
+                where = f"{self.span.source.display_name}:{self.line}:{self.column}"
+            path = write_internal_error(error, self.statement_text, where)
+            message = f"internal error while printing this result ({summary(error)})"
+            return message + (f"; the traceback is in {path}" if path is not None else "")
 
     def render(self, unicode: bool = False) -> str:   # pragma: no cover - overridden
         raise NotImplementedError

@@ -17,8 +17,8 @@ The session knows nothing of terminals; the CLI and REPL format its results.
 
 from __future__ import annotations
 
+import math
 import os
-import tempfile
 import traceback
 from typing import Iterator
 
@@ -35,14 +35,18 @@ from .parser import iter_statements
 from .results import (CheckResult, DeclarationResult, EmitResult, FileResult, HelpResult,
                       NoteResult, Result, ShowResult, ValueResult)
 from .scanner import needs_more_input
+from . import limits
 from . import tokens as T
+from .watchdog import StatementClock, StatementTimeout, restart, statement_budget
 
 __all__ = ["Session", "Result", "ValueResult", "CheckResult", "NoteResult",
            "DeclarationResult", "ShowResult", "EmitResult", "HelpResult", "FileResult"]
 
 MAX_INPUT_CHARS = 2_000_000
 SAVE_HEADER = "# gacalc session"
-DEFAULT_BUDGET = 10.0
+DEFAULT_BUDGET = 10.0             # seconds for one simplification
+DEFAULT_STATEMENT_BUDGET = 30.0   # seconds of wall-clock time for one statement
+MIN_SIMPLIFY_BUDGET = 0.05        # below this a simplification is not worth starting
 
 
 # The session -------------------------------------------------------------------------
@@ -61,17 +65,26 @@ class Session:
     simplification), ``width`` (line width of printed values), ``base_dir`` (where
     relative paths of typed input resolve; default: the current directory), ``emit_dir``
     (when set, every emit writes a file there: ``to "file"`` paths resolve under it, and an
-    emit without ``to`` goes to NAME.tex / .py / .c)."""
+    emit without ``to`` goes to NAME.tex / .py / .c), ``statement_budget`` (wall-clock
+    seconds per statement, default 30; ``math.inf`` for none).
+
+    A statement that runs out of its budget is abandoned with a GacalcLimitError; a
+    simplification that runs out (of its own budget or of what the statement has left)
+    gives the correct unsimplified value with a note."""
 
     def __init__(self, *, unicode: bool = False, budget: float | None = None,
-                 width: int = 78, base_dir: str | None = None, emit_dir: str | None = None):
+                 width: int = 78, base_dir: str | None = None, emit_dir: str | None = None,
+                 statement_budget: float | None = None):
         self.unicode = unicode
         self.budget = DEFAULT_BUDGET if budget is None else budget
+        self.statement_budget = (DEFAULT_STATEMENT_BUDGET if statement_budget is None
+                                 else statement_budget)
         self.width = width
         self.base_dir = base_dir
         self.emit_dir = emit_dir
         self._state = State()
         self._working: State | None = None
+        self._clock = StatementClock()
         self.current_span: Span | None = None   # statement being run (for interrupts)
 
     # Read-only views of the state ----------------------------------------------------
@@ -167,6 +180,7 @@ class Session:
         stack = [os.path.abspath(filename)] if filename else []
         context = _RunContext(base, stack)
         statements = iter_statements(source)
+        done = 0          # where the last statement ended (for an interrupt while reading)
         while True:
             try:
                 statement = next(statements)
@@ -176,12 +190,27 @@ class Session:
                 yield error
                 return
             except RecursionError:
-                yield GacalcLimitError("input nested too deeply", None)
+                yield GacalcLimitError("input nested too deeply", _next_span(source, done))
+                return
+            except KeyboardInterrupt:
+                yield GacalcInterrupt("interrupted while reading the next statement; "
+                                      "the statements before it have run",
+                                      _next_span(source, done))
+                return
+            except Exception as error:   # a bug in the scanner or parser
+                yield _internal_error(error, _next_span(source, done))
                 return
             results = self._run_one(statement, context)
+            done = statement.span.end
             yield from results
             if results and isinstance(results[-1], GacalcError):
                 return
+
+    def _seconds(self) -> float | None:
+        seconds = self.statement_budget
+        if seconds is None or seconds <= 0 or math.isinf(seconds):
+            return None
+        return float(seconds)
 
     def _run_one(self, statement: S.Statement, context: _RunContext) -> list:
         scratch = self._state.copy()
@@ -189,7 +218,8 @@ class Session:
         self.current_span = statement.span
         results: list = []
         try:
-            self._execute(statement, scratch, results, context)
+            with statement_budget(self._clock, self._seconds()):
+                self._execute(statement, scratch, results, context)
         except GacalcError as error:
             return _with_span(results, error, statement.span)
         except AlgebraError as error:
@@ -198,6 +228,11 @@ class Session:
         except KeyboardInterrupt:
             return [GacalcInterrupt("interrupted: the statement was abandoned and the "
                                     "session is unchanged", statement.span)]
+        except StatementTimeout:
+            return [GacalcLimitError(
+                f"the statement ran out of its time budget ({self._seconds():g} s) and was "
+                "abandoned; the session is unchanged", statement.span,
+                hint="a simpler form, fewer symbols, or a larger statement budget")]
         except RecursionError:
             return [GacalcLimitError("expression too deeply nested to evaluate",
                                      statement.span)]
@@ -205,9 +240,7 @@ class Session:
             return [GacalcLimitError("out of memory: the result is too large",
                                      statement.span)]
         except Exception as error:   # a bug in gacalc: report it, keep the session
-            return [GacalcInternalError(
-                f"internal error ({type(error).__name__}: {_short(error)})", statement.span,
-                traceback.format_exc())]
+            return [_internal_error(error, statement.span)]
         finally:
             self._working = None
             self.current_span = None
@@ -235,7 +268,7 @@ class Session:
         state.log.append(text if text.endswith(";") else text + ";")
 
     def _evaluate(self, node, state: State, results: list, statement, extra=None):
-        evaluator = Evaluator(state, extra)
+        evaluator = Evaluator(state, extra, self._clock)
         try:
             value = evaluator.evaluate(node)
         finally:
@@ -249,8 +282,20 @@ class Session:
         from gacalc.simplify import simplify
 
         conditions = relevant_conditions(state.conditions() + list(extra or ()), value)
-        outcome = simplify(value, [c.expr for c in conditions], self.budget)
+        outcome = simplify(value, [c.expr for c in conditions], self._simplify_budget())
         return outcome.value, outcome.complete, conditions
+
+    def _simplify_budget(self):
+        """The simplifier's budget: its own, but never past the statement's deadline
+        (simplify arms its own SIGALRM alarm; the statement's deadline uses another
+        signal, see gacalc.language.watchdog)."""
+        from gacalc.simplify import Budget
+
+        seconds = float(self.budget)
+        remaining = self._clock.remaining()
+        if remaining is not None:
+            seconds = min(seconds, max(remaining - MIN_SIMPLIFY_BUDGET, 0.0))
+        return Budget(seconds)
 
     def _do_ExpressionStatement(self, statement, state, results, context):
         value = self._evaluate(statement.expr, state, results, statement)
@@ -335,7 +380,7 @@ class Session:
     def _conditions(self, nodes, state, results, statement, origin) -> list[Condition]:
         out = []
         for node in nodes:
-            evaluator = Evaluator(state)
+            evaluator = Evaluator(state, None, self._clock)
             try:
                 left = evaluator.evaluate(node.left)
                 right = evaluator.evaluate(node.right)
@@ -365,10 +410,10 @@ class Session:
         differences = _differences(left, right, statement)
         conditions = relevant_conditions(state.conditions() + given, differences)
         exprs = [c.expr for c in conditions]
-        verdicts = [is_zero(d, (), self.budget) for d in differences]
+        verdicts = [is_zero(d, (), self._simplify_budget()) for d in differences]
         used: list[Condition] = []
         if not all(v is True for v in verdicts) and exprs:
-            verdicts = [is_zero(d, exprs, self.budget) for d in differences]
+            verdicts = [is_zero(d, exprs, self._simplify_budget()) for d in differences]
             used = conditions
         if all(v is True for v in verdicts):
             outcome = "holds"
@@ -420,6 +465,8 @@ class Session:
             raise GacalcError("show is not available yet (gacalc.forms is missing)",
                               statement.span) from None
         values = [v for v in (value, against) if is_multivector(v)]
+        for shown in values:       # the report multiplies the value with itself (norms...)
+            limits.check_chain([shown, shown, shown], statement.span, "the report of show")
         conditions = [c.expr for c in relevant_conditions(state.conditions(), values)]
         report = build_report(value, session=self, against=against, conditions=conditions)
         if statement.latex:
@@ -480,6 +527,7 @@ class Session:
         inner = _RunContext(os.path.dirname(path), context.stack + [path])
         count = 0
         for inner_statement in iter_statements(Source(text, path)):
+            restart(self._clock)       # each statement of the file has its own budget
             self._execute(inner_statement, state, results, inner)
             count += 1
         results.append(self._result(FileResult, statement, action="used", path=path,
@@ -498,9 +546,8 @@ class Session:
                  "conditions", *state.log]
         try:
             _write_atomically(path, "\n".join(lines) + "\n")
-        except OSError as error:
-            raise GacalcFileError(f"cannot write {path}: {_os_reason(error)}",
-                                  statement.path_span) from None
+        except OSError as error:     # the message already names the path and the reason
+            raise GacalcFileError(str(error), statement.path_span) from None
         results.append(self._result(FileResult, statement, action="saved", path=path,
                                     count=len(state.log)))
 
@@ -516,6 +563,33 @@ class Session:
 def _with_span(results: list, error: GacalcError, span: Span) -> list:
     error.with_span(span)
     return [error]
+
+
+def _internal_error(error: Exception, span: Span | None) -> GacalcInternalError:
+    """A bug in gacalc: the traceback goes to the state-directory log, the user gets one
+    line naming it (``log_path`` holds the path, None when it could not be written)."""
+    from gacalc.diagnostics import summary, write_internal_error
+
+    tb_text = traceback.format_exc()
+    where = statement = ""
+    if span is not None:
+        where = f"{span.source.display_name}:{span.line}:{span.column}"
+        statement = span.text
+    path = write_internal_error(error, statement, where, tb_text)
+    message = f"internal error ({summary(error)})"
+    if path is not None:
+        message += f"; the traceback is in {path}"
+    internal = GacalcInternalError(message, span, tb_text)
+    internal.log_path = str(path) if path is not None else None
+    return internal
+
+
+def _next_span(source: Source, offset: int) -> Span:
+    """Where the statement after ``offset`` begins (separators skipped)."""
+    text = source.text
+    while offset < len(text) and text[offset] in " \t\r\n;":
+        offset += 1
+    return Span(source, offset, min(offset + 1, len(text)))
 
 
 def _short(error: Exception) -> str:
@@ -662,18 +736,12 @@ def _is_saved_session(path: str) -> bool:
 
 
 def _write_atomically(path: str, text: str):
-    """Write to a temporary file in the same directory, then rename over the target."""
-    directory = os.path.dirname(path) or "."
-    handle, temporary = tempfile.mkstemp(dir=directory, prefix=".gacalc-", suffix=".tmp")
+    """Write through a temporary file in the same directory and os.replace (gacalc.export's
+    writer: a reader sees the old file or all of the new one, and an existing file keeps
+    its permissions).  Raises OSError."""
+    from gacalc.export import ExportError, write_atomically
+
     try:
-        with os.fdopen(handle, "w", encoding="utf-8") as out:
-            out.write(text)
-            out.flush()
-            os.fsync(out.fileno())
-        os.replace(temporary, path)
-    except BaseException:
-        try:
-            os.unlink(temporary)
-        except OSError:
-            pass
-        raise
+        write_atomically(path, text)
+    except ExportError as error:        # "cannot write PATH: REASON"
+        raise OSError(str(error)) from None

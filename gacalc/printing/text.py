@@ -67,7 +67,6 @@ def split_sign(text: str) -> tuple[int, str]:
 _IDENTIFIER = re.compile(r"[A-Za-z][A-Za-z0-9_]*")
 _INTEGER_POWER = re.compile(r"\^(\d+)|\^\((-\d+)\)")
 _STAR = re.compile(r"\*")
-_TRAILING_WORD = re.compile(r"\w+\Z")
 
 
 def greek(name: str) -> str:
@@ -83,15 +82,35 @@ def unicode_text(ascii_text: str) -> str:
     text = _INTEGER_POWER.sub(lambda m: (m.group(1) or m.group(2)).translate(_SUPERSCRIPTS),
                               text)
 
-    def star(match: re.Match) -> str:
-        after = text[match.end():].lstrip()
-        word = _TRAILING_WORD.search(text[:match.start()].rstrip())
-        if after.startswith("(") and word and not word.group()[0].isdigit():
-            return "*"      # 'name (' would read as a call
-        return " "
-
-    text = _STAR.sub(star, text)
+    text = _stars_to_spaces(text)
     return text.replace("-", UNICODE_MINUS)
+
+
+def _is_word_char(char: str) -> bool:
+    return char.isalnum() or char == "_"     # what \w matches
+
+
+def _stars_to_spaces(text: str) -> str:
+    """Juxtaposition for '*', except where 'name (' would read as a call.  Looks only at
+    the neighbours of each '*', so long coefficients print in linear time."""
+    pieces, start, length = [], 0, len(text)
+    for match in _STAR.finditer(text):
+        before = match.start() - 1
+        while before >= 0 and text[before].isspace():
+            before -= 1
+        word_start = before
+        while word_start >= 0 and _is_word_char(text[word_start]):
+            word_start -= 1
+        after = match.end()
+        while after < length and text[after].isspace():
+            after += 1
+        names_a_call = (after < length and text[after] == "(" and word_start < before
+                        and not text[word_start + 1].isdigit())
+        pieces.append(text[start:match.start()])
+        pieces.append("*" if names_a_call else " ")
+        start = match.end()
+    pieces.append(text[start:])
+    return "".join(pieces)
 
 
 # Multivectors ----------------------------------------------------------------------
