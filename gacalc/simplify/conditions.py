@@ -57,7 +57,7 @@ from gacalc.algebra.coefficients import REGISTRY, Coef, DomainError, ascii_text,
 from gacalc.algebra.multivector import AlgebraError
 
 from .budget import Budget
-from .relations import MAX_MULTIPLE, _multiple_angle, _rewrite, reduce_poly_relations
+from .relations import MAX_MULTIPLE, _multiple_angle, reduce_poly_relations, substitute
 
 ORDER = "grevlex"  # sympy's name; flint's is 'degrevlex' (the same order, checked in the tests)
 _FLINT_ORDER = "degrevlex"
@@ -153,17 +153,7 @@ def _align(p, angles: dict, budget) -> Coef:
         subs[pos] = cm if info.kind == "cos" else sm
     if not subs:
         return Coef(REGISTRY.lift(p))
-    positions = list(subs)
-    images = [subs[pos] for pos in positions]
-
-    def image(key):
-        out = Coef.constant(1)
-        for img, e in zip(images, key):
-            if e:
-                out = out * img**e
-        return out
-
-    return _rewrite(REGISTRY.lift(p), positions, image, budget)
+    return substitute(p, subs, budget)
 
 
 def _relations(p, budget) -> Coef:
@@ -585,17 +575,7 @@ class ConditionSet:
                 continue
         if not subs:
             return Coef(p)
-        positions = list(subs)
-        images = [subs[pos] for pos in positions]
-
-        def image(key):
-            out = Coef.constant(1)
-            for img, e in zip(images, key):
-                if e:
-                    out = out * img**e
-            return out
-
-        return _rewrite(REGISTRY.lift(p), positions, image, budget)
+        return substitute(p, subs, budget)
 
     def _may_touch_coef(self, c: Coef) -> bool:
         if c.expr is not None:

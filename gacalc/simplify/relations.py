@@ -60,6 +60,22 @@ def _rewrite(p, positions, image, budget=None) -> Coef:
     return total
 
 
+def substitute(p, images: dict, budget=None) -> Coef:
+    """p with the generator at each flint position replaced by a Coef: {position: image}."""
+    p = REGISTRY.lift(p)
+    positions = list(images)
+    values = [images[pos] for pos in positions]
+
+    def image(key):
+        out = Coef.constant(1)
+        for img, e in zip(values, key):
+            if e:
+                out = out * img**e
+        return out
+
+    return _rewrite(p, positions, image, budget)
+
+
 def _rational_gcd(qs):
     nums = [int(q.p) for q in qs]
     dens = [int(q.q) for q in qs]
@@ -106,17 +122,7 @@ def _to_base_angles(p, budget, companions=()):
                 substitutions[REGISTRY.info(pos).expr] = cm if kind == "cos" else sm
     if not substitutions:
         return Coef(p)
-    p = REGISTRY.lift(p)
-    positions = [REGISTRY.by_expr[e] + 1 for e in substitutions]
-    images = [substitutions[e] for e in substitutions]
-    def image(key):
-        out = Coef.constant(1)
-        for pos, img, e in zip(positions, images, key):
-            if e:
-                out = out * img**e
-        return out
-
-    return _rewrite(p, positions, image, budget)
+    return substitute(p, {REGISTRY.by_expr[e] + 1: img for e, img in substitutions.items()}, budget)
 
 
 def _power_rules(p):
