@@ -216,6 +216,30 @@ def test_a_statement_over_its_budget_is_abandoned(monkeypatch):
     assert signal.getitimer(signal.ITIMER_REAL)[0] == 0
 
 
+def test_the_interrupt_repeats_when_one_is_swallowed(monkeypatch):
+    # An exception raised inside a finalizer or a gc callback is "ignored" by Python; the
+    # deadline's interrupt keeps coming until the statement ends.
+    import time
+
+    swallowed = []
+
+    def swallowing_spin(ctx, *args):
+        end = time.monotonic() + 30
+        while time.monotonic() < end:
+            try:
+                while time.monotonic() < end:
+                    pass
+            except BaseException as error:      # noqa: BLE001 - what a finalizer does
+                if swallowed:
+                    raise
+                swallowed.append(type(error).__name__)
+        raise AssertionError("the statement budget never ended the statement")
+
+    patch_builtin(monkeypatch, "norm", swallowing_spin)
+    error = limit_error(Session(statement_budget=0.3), "norm(e1)")
+    assert "time budget" in error.message and swallowed == ["StatementTimeout"]
+
+
 def test_the_budget_is_also_checked_between_nodes_in_other_threads():
     # No signals outside the main thread: the evaluator checks the deadline at each node.
     session = Session(statement_budget=1e-6)

@@ -31,6 +31,7 @@ import time
 from contextlib import contextmanager
 
 _SIGNAL = getattr(signal, "SIGUSR1", None)
+REPEAT_SECONDS = 0.25     # past the deadline, the interrupt repeats this often
 
 
 class StatementTimeout(BaseException):
@@ -108,7 +109,9 @@ class _Alarm:
                     self._sleeping_until = deadline
                     self._condition.wait(remaining)
                     continue
-                self._deadline = None                 # once per deadline
+                # Again and again until the statement ends: an exception raised while
+                # Python runs a finalizer or a gc callback is swallowed ("ignored").
+                self._deadline = time.monotonic() + REPEAT_SECONDS
                 try:
                     _thread.interrupt_main(_SIGNAL)
                 except (ValueError, RuntimeError, OSError):
