@@ -18,7 +18,6 @@ from dataclasses import dataclass, field
 from fractions import Fraction
 
 import sympy
-from sympy.algebras import Quaternion
 
 from gacalc.algebra import AlgebraError, Multivector, NotInvertibleError
 
@@ -190,17 +189,18 @@ def build_report(value, session=None, against=None, conditions=()) -> Report:
     equal to zero (side conditions active in the session).  session is accepted for
     display settings only; the report does not depend on it.
     """
+    from gacalc.values import kind_of
+
     s = _Simplifier(conditions)
-    if isinstance(value, sympy.MatrixBase):
-        complex_entries = any(x.has(sympy.I) for x in value)
-        m = s.matrix(value, complex_entries)
-        return Report(f"{m.shape[0]}x{m.shape[1]} matrix", "matrix",
-                      [ReportItem("value", m, section=VALUE)], s.complete)
-    if isinstance(value, Quaternion):
-        q = tuple(s.scalar(c) for c in (value.a, value.b, value.c, value.d))
-        return Report("quaternion", "quaternion",
-                      [ReportItem("(w, x, y, z)", q, QUATERNION_NOTE, VALUE)], s.complete)
-    x = _as_multivector(value)
+    kind = kind_of(value)
+    if kind is None:
+        value = _as_multivector(value)
+        kind = kind_of(value)
+    return kind.report(value, s, against)
+
+
+def multivector_report(x: Multivector, s: _Simplifier, against=None) -> Report:
+    """The report of a multivector (the value kind of multivectors asks for it)."""
     builder = _Builder(s.mv(x), s)
     report = builder.build()
     if against is not None:

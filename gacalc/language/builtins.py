@@ -11,6 +11,14 @@ from dataclasses import dataclass
 from typing import Callable
 
 
+# How often a built-in multiplies its arguments together, as argument positions in the
+# order of the products: a rotor sandwich R x R~ is (0, 1, 0), a norm A A~ is (0, 0).
+# The size limits estimate the chain before the call (gacalc.language.limits); LINEAR,
+# the default, declares a built-in linear in its arguments (grade parts, involutions,
+# scalar functions, representations), whose result is checked after the call.
+LINEAR: tuple[int, ...] = ()
+
+
 @dataclass(frozen=True)
 class Builtin:
     name: str
@@ -21,6 +29,8 @@ class Builtin:
     example: str
     impl: Callable
     category: str
+    chain: tuple[int, ...] = LINEAR
+    estimate: Callable | None = None    # (args, span): its own size check instead of chain
 
     def arity_text(self) -> str:
         if self.min_args == self.max_args:
@@ -33,8 +43,10 @@ BUILTINS: dict[str, Builtin] = {}
 
 
 def builtin(signature: str, help: str, example: str, category: str,
-            min_args: int | None = None, max_args: int | None = None):
-    """Register an implementation; arity defaults to the count in the signature."""
+            min_args: int | None = None, max_args: int | None = None, *,
+            chain: tuple[int, ...] = LINEAR, estimate: Callable | None = None):
+    """Register an implementation; arity defaults to the count in the signature.
+    ``chain`` (or ``estimate``) is what the size limits check before a call."""
     name, _, rest = signature.partition("(")
     params = [p.strip() for p in rest.rstrip(")").split(",") if p.strip()]
     required = [p for p in params if not p.startswith("[")]
@@ -45,7 +57,7 @@ def builtin(signature: str, help: str, example: str, category: str,
             min_args=len(required) if min_args is None else min_args,
             max_args=len(params) if max_args is None else max_args,
             signature=signature, help=help, example=example, impl=function,
-            category=category)
+            category=category, chain=chain, estimate=estimate)
         return function
 
     return register
@@ -70,6 +82,12 @@ def _scalar_mv(x):
 
         raise GacalcMathError("the result is undefined (a pole or a division by zero)")
     return _core().Multivector.scalar(x)
+
+
+def _limits():
+    from . import limits
+
+    return limits
 
 
 def _rotors():
@@ -158,68 +176,79 @@ def _undual(ctx, a):
 
 
 # Norms and inverses ---------------------------------------------------------------
-@builtin("norm(A)", "norm: sqrt(<A A~>)", "norm(3 e1 + 4 e2)", "norms")
+@builtin("norm(A)", "norm: sqrt(<A A~>)", "norm(3 e1 + 4 e2)", "norms",
+         chain=(0, 0))
 def _norm(ctx, a):
     return _scalar_mv(ctx.multivector(0).norm())
 
 
-@builtin("norm2(A)", "squared norm: <A A~>", "norm2(3 e1 + 4 e2)", "norms")
+@builtin("norm2(A)", "squared norm: <A A~>", "norm2(3 e1 + 4 e2)", "norms",
+         chain=(0, 0))
 def _norm2(ctx, a):
     return _scalar_mv(ctx.multivector(0).norm2())
 
 
 @builtin("inverse(A)", "inverse of any invertible multivector (also A^-1)",
-         "inverse(1 + e1 + e12)", "norms")
+         "inverse(1 + e1 + e12)", "norms",
+         chain=(0, 0, 0, 0))
 def _inverse(ctx, a):
     return ctx.inverse(ctx.multivector(0), 0)
 
 
 # Products --------------------------------------------------------------------------
 @builtin("cross(a, b)", "Gibbs cross product of two vectors: dual(a /\\ b)",
-         "cross(e1, e2)", "products")
+         "cross(e1, e2)", "products",
+         chain=(0, 1))
 def _cross(ctx, a, b):
     return _core().cross(ctx.vector(0), ctx.vector(1))
 
 
-@builtin("comm(A, B)", "commutator product (A B - B A)/2", "comm(e12, e1)", "products")
+@builtin("comm(A, B)", "commutator product (A B - B A)/2", "comm(e12, e1)", "products",
+         chain=(0, 1))
 def _comm(ctx, a, b):
     return ctx.multivector(0).comm(ctx.multivector(1))
 
 
 @builtin("anticomm(A, B)", "anticommutator product (A B + B A)/2", "anticomm(e1, e1 + e2)",
-         "products")
+         "products",
+         chain=(0, 1))
 def _anticomm(ctx, a, b):
     return ctx.multivector(0).anticomm(ctx.multivector(1))
 
 
 # Versors and rotors ----------------------------------------------------------------
 @builtin("project(x, B)", "projection of x onto the blade B: (x _| B) B^-1",
-         "project(e1 + e3, e12)", "versors")
+         "project(e1 + e3, e12)", "versors",
+         chain=(0, 1, 1, 1, 1))
 def _project(ctx, x, b):
     return _versors().project(ctx.multivector(0), ctx.multivector(1))
 
 
 @builtin("reject(x, B)", "rejection of x from the blade B: x minus its projection",
-         "reject(e1 + e3, e12)", "versors")
+         "reject(e1 + e3, e12)", "versors",
+         chain=(0, 1, 1, 1, 1))
 def _reject(ctx, x, b):
     return _versors().reject(ctx.multivector(0), ctx.multivector(1))
 
 
 @builtin("reflect(X, n)", "reflection of X in the plane with normal vector n",
-         "reflect(e1 + e2, e1)", "versors")
+         "reflect(e1 + e2, e1)", "versors",
+         chain=(1, 0, 1))
 def _reflect(ctx, x, n):
     return _versors().reflect(ctx.multivector(0), ctx.vector(1))
 
 
 @builtin("apply(V, X)", "versor V applied to X: V X V^-1, with the grade involution of X "
-         "for odd V", "apply(e1, e2 + e1)", "versors")
+         "for odd V", "apply(e1, e2 + e1)", "versors",
+         chain=(0, 1, 0, 0, 0))
 def _apply(ctx, v, x):
     return _versors().apply_versor(ctx.multivector(0), ctx.multivector(1))
 
 
 @builtin("rotor(B, theta)", "rotor exp(-B theta/2) for a unit bivector B or a unit axis "
          "vector n (plane n I); rotor(a, b) turns unit vector a into b",
-         "rotor(e12, pi/2)", "rotors")
+         "rotor(e12, pi/2)", "rotors",
+         chain=(0, 0, 0, 1))
 def _rotor(ctx, first, second):
     first = ctx.multivector(0)
     second = ctx.multivector(1)
@@ -236,13 +265,15 @@ def _rotor(ctx, first, second):
 
 
 @builtin("rotate(R, x)", "rotation of x by the rotor R: R x R~", "rotate(rotor(e12, pi/2), e1)",
-         "rotors")
+         "rotors",
+         chain=(0, 1, 0))
 def _rotate(ctx, r, x):
     return _rotors().rotate(ctx.multivector(0), ctx.multivector(1), ctx.conditions())
 
 
 @builtin("angle(R)", "rotation angle of a rotor; angle(a, b) is the angle between vectors",
-         "angle(rotor(e12, pi/3))", "rotors", min_args=1, max_args=2)
+         "angle(rotor(e12, pi/3))", "rotors", min_args=1, max_args=2,
+         chain=(0, 0, 0))
 def _angle(ctx, r, b=None):
     first = ctx.multivector(0)
     if b is None:
@@ -254,25 +285,29 @@ def _angle(ctx, r, b=None):
 
 
 @builtin("axis(R)", "unit rotation axis of a rotor (right-hand rule)",
-         "axis(rotor(e3, pi/2))", "rotors")
+         "axis(rotor(e3, pi/2))", "rotors",
+         chain=(0, 0, 0))
 def _axis(ctx, r):
     return _rotors().rotor_axis(ctx.multivector(0), ctx.conditions())
 
 
 @builtin("plane(R)", "unit rotation plane (bivector) of a rotor", "plane(rotor(e12, pi/2))",
-         "rotors")
+         "rotors",
+         chain=(0, 0, 0))
 def _plane(ctx, r):
     return _rotors().rotor_plane(ctx.multivector(0), ctx.conditions())
 
 
 @builtin("power(R, q)", "rational power of a rotor: the rotation scaled by q",
-         "power(rotor(e12, pi/2), 1/2)", "rotors")
+         "power(rotor(e12, pi/2), 1/2)", "rotors",
+         chain=(0, 0, 0))
 def _power(ctx, r, q):
     return _rotors().power(ctx.multivector(0), ctx.rational(1), ctx.conditions())
 
 
 @builtin("slerp(R1, R2, t)", "spherical interpolation between rotors along the shorter arc",
-         "slerp(1, rotor(e12, pi/2), 1/2)", "rotors")
+         "slerp(1, rotor(e12, pi/2), 1/2)", "rotors",
+         chain=(0, 1, 0, 1))
 def _slerp(ctx, r1, r2, t):
     return _rotors().slerp(ctx.multivector(0), ctx.multivector(1), ctx.scalar(2),
                           ctx.conditions())
@@ -280,7 +315,8 @@ def _slerp(ctx, r1, r2, t):
 
 # exp, log, sqrt: scalar functions on scalars, the algebra's on multivectors ---------
 @builtin("exp(A)", "exponential: of a scalar, or of any multivector (closed form)",
-         "exp(-e12 pi/4)", "functions")
+         "exp(-e12 pi/4)", "functions",
+         chain=(0, 0, 0))
 def _exp(ctx, a):
     value = ctx.multivector(0)
     if value.is_scalar() or value.is_zero():
@@ -289,7 +325,8 @@ def _exp(ctx, a):
 
 
 @builtin("log(A)", "logarithm: of a scalar, or of a rotor (principal branch, a bivector)",
-         "log(rotor(e12, pi/3))", "functions")
+         "log(rotor(e12, pi/3))", "functions",
+         chain=(0, 0, 0))
 def _log(ctx, a):
     value = ctx.multivector(0)
     if value.is_scalar() or value.is_zero():
@@ -300,7 +337,8 @@ def _log(ctx, a):
 
 
 @builtin("sqrt(A)", "square root: of a scalar, or of a rotor (half the rotation)",
-         "sqrt(rotor(e12, pi/2))", "functions")
+         "sqrt(rotor(e12, pi/2))", "functions",
+         chain=(0, 0, 0))
 def _sqrt(ctx, a):
     value = ctx.multivector(0)
     if value.is_scalar() or value.is_zero():
@@ -337,7 +375,8 @@ def _atan2(ctx, y, x):
 
 # Representations ---------------------------------------------------------------------
 @builtin("matrix(R)", "3x3 rotation matrix of a rotor (acting on column vectors)",
-         "matrix(rotor(e12, pi/2))", "representations")
+         "matrix(rotor(e12, pi/2))", "representations",
+         chain=(0, 0, 0))
 def _matrix(ctx, r):
     return _representations().rotation_matrix(ctx.multivector(0), ctx.conditions())
 
@@ -387,7 +426,8 @@ def _from_quaternion(ctx, *args):
 
 # Symbols and numbers -------------------------------------------------------------
 @builtin("subs(A, t, value)", "A with the scalar symbol t replaced by a scalar value",
-         "subs(cos(t) e1, t, pi)", "symbols")
+         "subs(cos(t) e1, t, pi)", "symbols",
+         estimate=lambda args, span: _limits().check_substitution(args, span))
 def _subs(ctx, a, t, value):
     expr = ctx.scalar(1)
     sympy = _sympy()

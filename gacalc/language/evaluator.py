@@ -24,7 +24,10 @@ from dataclasses import dataclass, field
 import sympy
 
 from gacalc.algebra import AlgebraError, Multivector, NotInvertibleError, blade
-from gacalc.printing.text import describe_value, scalar_text
+from gacalc.printing.text import scalar_text
+from gacalc.values import describe as describe_value, kind_of, symbols as value_symbols
+from gacalc.values.matrix import MATRIX
+from gacalc.values.quaternion import QUATERNION
 
 from . import limits
 from . import syntax as S
@@ -101,16 +104,6 @@ def is_multivector(value) -> bool:
     return isinstance(value, Multivector)
 
 
-def is_matrix(value) -> bool:
-    return isinstance(value, sympy.MatrixBase)
-
-
-def is_quaternion(value) -> bool:
-    from sympy.algebras.quaternion import Quaternion
-
-    return isinstance(value, Quaternion)
-
-
 class Evaluator:
     """Evaluates expressions against a (scratch) State; collects notes."""
 
@@ -139,7 +132,7 @@ class Evaluator:
             method = getattr(self, "_eval_" + type(node).__name__)
             return method(node, frame)
         except AlgebraError as error:
-            raise _math_error(error, node.span) from None
+            raise math_error(error, node.span) from None
         except ZeroDivisionError:
             raise GacalcMathError("division by zero", node.span) from None
         finally:
@@ -204,15 +197,11 @@ class Evaluator:
         return total
 
     def add(self, left, right, sign: int, span: Span):
-        if is_multivector(left) and is_multivector(right):
-            limits.check_sum(left, right, span)
-            total = left + right if sign > 0 else left - right
-            limits.check_terms(total, span, "this sum")
-            return total
-        if is_matrix(left) and is_matrix(right) and left.shape == right.shape:
-            return left + right if sign > 0 else left - right
-        if is_quaternion(left) and is_quaternion(right):
-            return left + right if sign > 0 else left - right
+        kind = kind_of(left)
+        if kind is not None and kind_of(right) is kind:
+            total = kind.add(left, right, sign, span)
+            if total is not None:
+                return total
         raise GacalcTypeError(f"cannot {'add' if sign > 0 else 'subtract'} "
                               f"{describe_value(right)} {'to' if sign > 0 else 'from'} "
                               f"{describe_value(left)}", span)
@@ -228,59 +217,41 @@ class Evaluator:
         return total
 
     def multiply(self, left, right, span: Span):
-        if is_multivector(left) and is_multivector(right):
-            limits.check_product(left, right, span)
-            return left * right
-        left_scalar = _as_scalar(left)
-        right_scalar = _as_scalar(right)
-        if left_scalar is not None and not is_multivector(right):
-            return right * left_scalar if is_matrix(right) else _scale_quaternion(right, left_scalar)
-        if right_scalar is not None and not is_multivector(left):
-            return left * right_scalar if is_matrix(left) else _scale_quaternion(left, right_scalar)
-        if is_matrix(left) and is_matrix(right):
-            if left.cols != right.rows:
-                raise GacalcTypeError(f"cannot multiply {describe_value(left)} by "
-                                      f"{describe_value(right)}", span)
-            return left * right
-        if is_quaternion(left) and is_quaternion(right):
-            return left * right
-        raise GacalcTypeError(f"cannot multiply {describe_value(left)} by "
-                              f"{describe_value(right)}", span)
+        """Two values of one kind multiply as that kind says; a scalar scales any value."""
+        left_kind, right_kind = kind_of(left), kind_of(right)
+        result = None
+        if left_kind is not None and left_kind is right_kind:
+            result = left_kind.multiply(left, right, span)
+        elif left_kind is not None and right_kind is not None:
+            factor = left_kind.as_scalar(left)
+            if factor is not None:
+                result = right_kind.scale(right, factor)
+            else:
+                factor = right_kind.as_scalar(right)
+                if factor is not None:
+                    result = left_kind.scale(left, factor)
+        if result is None:
+            raise GacalcTypeError(f"cannot multiply {describe_value(left)} by "
+                                  f"{describe_value(right)}", span)
+        return result
 
     def divide(self, left, right, span: Span, whole: Span):
-        if is_multivector(right):
-            if right.is_zero():
-                raise GacalcMathError("division by zero", span)
-            if right.is_scalar():
-                if is_multivector(left):
-                    return left / right
-                return self.multiply(left, Multivector.scalar(1 / right.scalar_part()), span)
-            if not is_multivector(left):
-                raise GacalcTypeError(f"cannot divide {describe_value(left)} by a multivector",
-                                      span)
-            return self.multiply(left, self.inverse(right, span), span)
-        raise GacalcTypeError(f"cannot divide by {describe_value(right)}", span)
+        return self._kind(right).divide(self, left, right, span)
 
     def inverse(self, value, span: Span):
-        """value^-1, noting the validity condition when it cannot be decided."""
-        if not is_multivector(value):
-            if is_matrix(value) and value.rows == value.cols:
-                if value.det() == 0:
-                    raise GacalcMathError("this matrix is not invertible (determinant 0)", span)
-                return value.inv()
-            raise GacalcTypeError(f"cannot invert {describe_value(value)}", span)
-        if value.is_zero():
-            raise GacalcMathError("division by zero: 0 has no inverse", span)
-        if not value.is_scalar():
-            # A^-1 = conj(A) (a - b I) / (a^2 + b^2) with a + b I = A conj(A)
-            limits.check_chain([value, value, value, value], span, "this inverse")
-        try:
-            result, condition = value.inverse_with_condition()
-        except NotInvertibleError as error:
-            raise _math_error(error, span) from None
-        if condition is not None:
-            self.note(f"the inverse is valid where {scalar_text(condition)} != 0", span)
-        return result
+        """value^-1, as the value's kind computes it (with notes on its validity)."""
+        return self._kind(value).inverse(self, value, span)
+
+    def _kind(self, value):
+        kind = kind_of(value)
+        if kind is None:     # a bug: every value the evaluator makes has a kind
+            raise TypeError(f"not a gacalc value: {type(value).__name__}")
+        return kind
+
+    def active_conditions(self, values) -> list:
+        """The side conditions in force (the session's and this check's) that concern
+        the values."""
+        return relevant_conditions(self.state.conditions() + self.extra_conditions, values)
 
     # Wedge family and unary operators ---------------------------------------------------
     def _eval_Wedge(self, node: S.Wedge, frame):
@@ -305,9 +276,10 @@ class Evaluator:
 
     def _eval_Negate(self, node: S.Negate, frame):
         value = self.evaluate(node.operand, frame)
-        if is_quaternion(value):
-            return _scale_quaternion(value, -1)
-        return -value
+        negated = self._kind(value).negate(value)
+        if negated is None:
+            raise GacalcTypeError(f"cannot negate {describe_value(value)}", node.span)
+        return negated
 
     def _eval_Reverse(self, node: S.Reverse, frame):
         value = self.multivector(self.evaluate(node.operand, frame), node.operand.span,
@@ -335,42 +307,7 @@ class Evaluator:
                                        f"{limit})", span)
         elif exponent.is_Number:
             raise GacalcTypeError("exponents are exact numbers or scalar symbols", span)
-        if is_multivector(base) and (base.is_scalar() or base.is_zero()):
-            if exponent.is_Integer and abs(exponent) >= 2:
-                limits.check_power(base, abs(int(exponent)), node.span)
-            scalar_base = base.scalar_part()
-            _check_result_digits(scalar_base, exponent, node.span)
-            if scalar_base == 0 and exponent.is_negative:
-                raise GacalcMathError("division by zero: 0 to a negative power", node.span)
-            result = sympy.Pow(scalar_base, exponent)
-            _check_finite(result, node.span)
-            return Multivector.scalar(result)
-        if not exponent.is_Rational:
-            raise GacalcTypeError("a multivector can only be raised to a number; symbolic "
-                                  "exponents are for scalars", span)
-        if is_matrix(base):
-            if not exponent.is_Integer or base.rows != base.cols:
-                raise GacalcTypeError("only square matrices, to integer powers", span)
-            return self.inverse(base, node.span) ** int(-exponent) if exponent < 0 \
-                else base ** int(exponent)
-        if is_quaternion(base):
-            if not exponent.is_Integer:
-                raise GacalcTypeError("quaternions take integer powers", span)
-            result = base ** abs(int(exponent))
-            return result.inverse() if exponent < 0 else result
-        if exponent.is_Integer:
-            n = int(exponent)
-            if n < 0:
-                base, n = self.inverse(base, node.span), -n
-            return self.integer_power(base, n, node.span)
-        if base.grades() <= {0, 2}:
-            from gacalc.algebra import rotors
-
-            active = self.state.conditions() + self.extra_conditions
-            conditions = tuple(c.expr for c in relevant_conditions(active, [base]))
-            return rotors.power(base, exponent, conditions)
-        raise GacalcTypeError("a fractional power needs a rotor (an even multivector)",
-                              node.base.span)
+        return self._kind(base).power(self, base, exponent, node)
 
     def integer_power(self, base, n: int, span: Span):
         """base^n (n >= 0) by repeated squaring, each product checked against the limits."""
@@ -437,14 +374,14 @@ class Evaluator:
             raise GacalcTypeError(f"{function.name} takes {function.arity_text()}, not "
                                   f"{count}: {function.signature}", node.span)
         args = [self.evaluate(arg, frame) for arg in node.args]
-        limits.check_call(function.name, args, node.span)
+        limits.check_call(function, args, node.span)
         context = CallContext(self, function, node, args)
         try:
             result = function.impl(context, *args)
         except GacalcError as error:
             raise error.with_span(node.span)
         except NotInvertibleError as error:
-            raise _math_error(error, node.span) from None
+            raise math_error(error, node.span) from None
         except (AlgebraError, ValueError, NotImplementedError, ArithmeticError) as error:
             # The core and sympy refuse some inputs with these; the messages are for users.
             message = _exception_text(error)
@@ -452,7 +389,7 @@ class Evaluator:
                 message = f"{function.name}: {message}"
             raise GacalcMathError(message, node.span) from None
         if is_multivector(result) and result.is_scalar():
-            _check_finite(result.scalar_part(), node.span)
+            check_finite(result.scalar_part(), node.span)
         limits.check_value(result, node.span, f"the result of {function.name}")
         return result
 
@@ -515,10 +452,7 @@ class CallContext:
 
     def conditions(self) -> tuple:
         """Active side conditions (sympy Exprs equal to zero) that concern the arguments."""
-        evaluator = self.evaluator
-        active = evaluator.state.conditions() + evaluator.extra_conditions
-        values = [value for value in self.args if is_multivector(value)]
-        return tuple(c.expr for c in relevant_conditions(active, values))
+        return tuple(c.expr for c in self.evaluator.active_conditions(self.args))
 
     def _what(self, index: int) -> str:
         ordinal = ("first", "second", "third", "fourth")[index] if index < 4 else f"#{index + 1}"
@@ -556,7 +490,7 @@ class CallContext:
 
     def quaternion(self, index: int):
         value = self.args[index]
-        if is_quaternion(value):
+        if kind_of(value) is QUATERNION:
             return value
         raise GacalcTypeError(f"{self._what(index)} must be a quaternion value (from "
                               f"quaternion(...)), not {describe_value(value)}", self.span(index))
@@ -566,7 +500,7 @@ class CallContext:
         """A matrix value, or rows*cols entries given one by one (row by row)."""
         if len(args) == 1:
             value = args[0]
-            if not is_matrix(value) or value.shape != (rows, cols):
+            if kind_of(value) is not MATRIX or value.shape != (rows, cols):
                 self.fail(f"expected a {rows}x{cols} matrix value or its {rows * cols} entries",
                           0)
             return value
@@ -595,8 +529,7 @@ def relevant_conditions(conditions: list, values) -> list:
         values = [values]
     symbols = set()
     for value in values:
-        if is_multivector(value):
-            symbols |= value.free_symbols
+        symbols |= value_symbols(value)
     chosen, remaining = [], list(conditions)
     changed = True
     while changed:
@@ -611,19 +544,7 @@ def relevant_conditions(conditions: list, values) -> list:
     return chosen
 
 
-def _as_scalar(value):
-    if is_multivector(value) and (value.is_scalar() or value.is_zero()):
-        return value.scalar_part()
-    return None
-
-
-def _scale_quaternion(q, factor):
-    from sympy.algebras.quaternion import Quaternion
-
-    return Quaternion(q.a * factor, q.b * factor, q.c * factor, q.d * factor)
-
-
-def _check_result_digits(base, exponent, span: Span):
+def check_result_digits(base, exponent, span: Span):
     """Refuse exact powers whose numbers would be enormous (10^1000^1000...)."""
     if not (base.is_Rational and exponent.is_Rational) or base == 0:
         return
@@ -636,7 +557,7 @@ def _check_result_digits(base, exponent, span: Span):
                                f"is {MAX_RESULT_DIGITS})", span)
 
 
-def _check_finite(expr, span: Span):
+def check_finite(expr, span: Span):
     if expr.has(sympy.zoo, sympy.nan, sympy.oo, -sympy.oo):
         raise GacalcMathError("the result is undefined (a division by zero or a pole)", span)
 
@@ -646,7 +567,7 @@ def _exception_text(error: Exception) -> str:
     return text[:200]
 
 
-def _math_error(error: AlgebraError, span: Span) -> GacalcMathError:
+def math_error(error: AlgebraError, span: Span) -> GacalcMathError:
     message = _exception_text(error)
     condition = getattr(error, "condition", None)
     if isinstance(error, NotInvertibleError) and condition is not None \

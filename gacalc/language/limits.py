@@ -27,6 +27,13 @@ from dataclasses import dataclass
 
 from .errors import GacalcLimitError, Span
 
+
+def value_size(value):
+    """The size of any value as its kind measures it (None: small)."""
+    from gacalc.values import size
+
+    return size(value)
+
 MAX_TERMS = 50_000                 # terms in a value (all blades, numerators and denominators)
 MAX_PRODUCT_WORK = 20_000_000      # term-by-term multiplications in one product
 MAX_COEFFICIENT_DIGITS = 4_000     # decimal digits of one coefficient's numbers
@@ -197,7 +204,7 @@ def check_power(a, n: int, span: Span | None) -> Size:
 def check_chain(values, span: Span | None, what: str) -> None:
     """Refuse a computation that multiplies these values together in turn (rotor sandwiches,
     inverses and norms multiply an argument with itself)."""
-    sizes = [size_of(value) for value in values if hasattr(value, "coefs")]
+    sizes = [size for size in map(value_size, values) if size is not None]
     if not sizes:
         return
     current = sizes[0]
@@ -218,8 +225,9 @@ def check_chain(values, span: Span | None, what: str) -> None:
 
 def check_value(value, span: Span | None, what: str = "the result"):
     """Refuse a computed value over the limits (after functions that cannot be estimated)."""
-    if hasattr(value, "coefs"):
-        check_size(size_of(value), span, what)
+    size = value_size(value)
+    if size is not None:
+        check_size(size, span, what)
 
 
 def _up_to(x: float) -> str:
@@ -258,33 +266,21 @@ def _has_denominator(value) -> bool:
     return coefs is not None and any(c is not None and c.den is not None for c in coefs())
 
 
-# How often each built-in multiplies its arguments together: a rotor sandwich R x R~
-# multiplies R twice, a norm A A~ squares A.  Built-ins missing here (grade parts,
-# involutions, scalar functions, representations) are linear in their arguments.
-_CALL_CHAINS = {
-    "norm": (0, 0), "norm2": (0, 0), "inverse": (0, 0, 0, 0), "cross": (0, 1),
-    "comm": (0, 1), "anticomm": (0, 1), "project": (0, 1, 1, 1, 1), "reject": (0, 1, 1, 1, 1),
-    "reflect": (1, 0, 1), "apply": (0, 1, 0, 0, 0), "rotor": (0, 0, 0, 1), "rotate": (0, 1, 0),
-    "angle": (0, 0, 0), "axis": (0, 0, 0), "plane": (0, 0, 0), "power": (0, 0, 0),
-    "slerp": (0, 1, 0, 1), "exp": (0, 0, 0), "log": (0, 0, 0), "sqrt": (0, 0, 0),
-    "matrix": (0, 0, 0),
-}
-
-
-def check_call(name: str, args: list, span: Span | None):
-    """Refuse a built-in call whose products would be too large, before it runs."""
-    if name == "subs" and len(args) == 3:
-        _check_substitution(args, span)
+def check_call(builtin, args: list, span: Span | None):
+    """Refuse a built-in call whose products would be too large, before it runs: the
+    built-in's own estimate, or the chain of products it declares (gacalc.language.builtins)."""
+    if builtin.estimate is not None:
+        builtin.estimate(args, span)
         return
-    chain = _CALL_CHAINS.get(name)
-    if chain is None:
-        return
-    values = [args[i] for i in chain if i < len(args)]
-    check_chain(values, span, f"{name}(...) here")
+    values = [args[i] for i in builtin.chain if i < len(args)]
+    if values:
+        check_chain(values, span, f"{builtin.name}(...) here")
 
 
-def _check_substitution(args, span):
+def check_substitution(args, span):
     """subs(A, t, v): each t^k in A becomes v^k."""
+    if len(args) != 3:
+        return
     value, replacement = args[0], args[2]
     if not (hasattr(value, "coefs") and hasattr(replacement, "coefs")):
         return

@@ -13,8 +13,12 @@ from dataclasses import dataclass, field
 from .errors import Span
 
 
-def is_multivector(value) -> bool:
-    return hasattr(value, "coefficient_texts")
+def _block_text(value) -> bool:
+    """Whether multi-line text of the value goes below "name =" (its kind says)."""
+    from gacalc.values import kind_of
+
+    kind = kind_of(value)
+    return kind is None or kind.block_text
 
 
 @dataclass
@@ -84,7 +88,7 @@ class ValueResult(Result):
             return value_text(self.value, unicode, self.width)
         head = f"{self.name} = "
         body = value_text(self.value, unicode, self.width, indent=len(head))
-        if "\n" in body and not is_multivector(self.value):
+        if "\n" in body and _block_text(self.value):
             return f"{self.name} =\n{body}"
         return head + body
 

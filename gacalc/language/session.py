@@ -23,14 +23,15 @@ import traceback
 from typing import Iterator
 
 from gacalc.algebra import AlgebraError
+from gacalc.values import describe, kind_of
 
 from . import syntax as S
 from .builtins import BUILTINS, HELP_TOPICS, help_text
 from .errors import (GacalcError, GacalcFileError, GacalcInternalError, GacalcInterrupt,
                      GacalcLimitError, GacalcMathError, GacalcNameError, GacalcTypeError,
                      Source, Span)
-from .evaluator import (Condition, Evaluator, State, UserFunction, is_matrix, is_multivector,
-                        is_quaternion, relevant_conditions)
+from .evaluator import (Condition, Evaluator, State, UserFunction, is_multivector,
+                        relevant_conditions)
 from .parser import iter_statements
 from .results import (CheckResult, DeclarationResult, EmitResult, FileResult, HelpResult,
                       NoteResult, Result, ShowResult, ValueResult)
@@ -277,13 +278,11 @@ class Session:
 
     def _simplified(self, value, state: State, extra: list | None = None):
         """(value, complete, conditions used) through gacalc.simplify."""
-        if not is_multivector(value):
-            return value, True, []
-        from gacalc.simplify import simplify
-
+        kind = kind_of(value)
         conditions = relevant_conditions(state.conditions() + list(extra or ()), value)
-        outcome = simplify(value, [c.expr for c in conditions], self._simplify_budget())
-        return outcome.value, outcome.complete, conditions
+        value, complete = kind.simplify(value, [c.expr for c in conditions],
+                                        self._simplify_budget())
+        return value, complete, conditions
 
     def _simplify_budget(self):
         """The simplifier's budget: its own, but never past the statement's deadline
@@ -459,37 +458,28 @@ class Session:
         against = None
         if statement.against is not None:
             against = self._evaluate(statement.against, state, results, statement)
-        try:
-            from gacalc.forms import build_report
-        except ImportError:
-            raise GacalcError("show is not available yet (gacalc.forms is missing)",
-                              statement.span) from None
-        values = [v for v in (value, against) if is_multivector(v)]
+        from gacalc.forms import build_report
+
+        values = [v for v in (value, against) if v is not None]
         for shown in values:       # the report multiplies the value with itself (norms...)
             limits.check_chain([shown, shown, shown], statement.span, "the report of show")
         conditions = [c.expr for c in relevant_conditions(state.conditions(), values)]
         report = build_report(value, session=self, against=against, conditions=conditions)
-        if statement.latex:
-            text = _report_text(report, "latex")
-        else:
-            text = _report_text(report, "unicode" if self.unicode else "text")
+        text = report.to_latex() if statement.latex else report.to_text(self.unicode)
         results.append(self._result(ShowResult, statement, report=report, report_text=text,
                                     latex=statement.latex))
 
     def _do_Emit(self, statement, state, results, context):
         value = self._evaluate(statement.expr, state, results, statement)
         value, _, _ = self._simplified(value, state)
-        try:
-            from gacalc import export
-        except ImportError:
-            raise GacalcError("emit is not available yet (gacalc.export is missing)",
-                              statement.span) from None
+        from gacalc import export
+
         name = statement.as_name
         if name is None and isinstance(statement.expr, S.Name):
             name = statement.expr.name
         declared = dict(state.declarations)
         try:
-            code = export.emit(statement.target, value, name=name, declared=declared,
+            code = export.emit(statement.target, kind_of(value).export(value), name=name, declared=declared,
                                options={})
         except export.ExportError as error:
             raise GacalcError(f"emit {statement.target}: {error}", statement.span) from None
@@ -649,51 +639,17 @@ def _check_consistent(active: list, new: list):
 
 
 def _differences(left, right, statement) -> list:
-    """L - R as a list of multivectors (one per matrix entry for matrices)."""
-    from gacalc.algebra import Multivector
-
-    if is_multivector(left) and is_multivector(right):
-        return [left - right]
-    if is_matrix(left) and is_matrix(right) and left.shape == right.shape:
-        return [Multivector.scalar(x) if not x.has(_imaginary()) else _complex_mv(x)
-                for x in (left - right)]
-    if is_quaternion(left) and is_quaternion(right):
-        d = left - right
-        return [Multivector.scalar(part) for part in (d.a, d.b, d.c, d.d)]
-    from gacalc.printing.text import describe_value
-
-    raise GacalcTypeError(f"cannot compare {describe_value(left)} with "
-                          f"{describe_value(right)}", statement.span)
-
-
-def _imaginary():
-    import sympy
-
-    return sympy.I
-
-
-def _complex_mv(x):
-    """A complex scalar a + b i as the central multivector a + b I (Pauli picture)."""
-    import sympy
-
-    from gacalc.algebra import Multivector
-
-    real, imaginary = sympy.re(x), sympy.im(x)
-    return Multivector({0: real, 7: imaginary})
+    """L - R as a list of multivectors, all zero when L equals R."""
+    differences = kind_of(left).differences(left, right)
+    if differences is None:
+        raise GacalcTypeError(f"cannot compare {describe(left)} with {describe(right)}",
+                              statement.span)
+    return differences
 
 
 def _reassemble(left, right, differences):
     """The difference in the shape of the compared values."""
-    import sympy
-
-    if is_multivector(left):
-        return differences[0]
-    if is_matrix(left):
-        entries = [d.scalar_part() + sympy.I * d["e123"] for d in differences]
-        return sympy.Matrix(left.rows, left.cols, entries)
-    from sympy.algebras.quaternion import Quaternion
-
-    return Quaternion(*[d.scalar_part() for d in differences])
+    return kind_of(left).reassemble(left, differences)
 
 
 def _unique(texts) -> list:
@@ -703,18 +659,6 @@ def _unique(texts) -> list:
             seen.add(text)
             out.append(text)
     return out
-
-
-def _report_text(report, mode: str) -> str:
-    """Text of a forms report in a mode, whatever methods the report object offers."""
-    for method in (f"to_{mode}", mode, "render"):
-        function = getattr(report, method, None)
-        if callable(function):
-            try:
-                return function() if method != "render" else function(mode)
-            except TypeError:
-                continue
-    return str(report)
 
 
 _EMIT_SUFFIX = {"latex": ".tex", "python": ".py", "numpy": ".py", "c": ".c"}

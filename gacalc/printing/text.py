@@ -273,26 +273,17 @@ def quaternion_text(q, unicode: bool = False) -> str:
 
 def value_text(value, unicode: bool = False, width: int = DEFAULT_WIDTH,
                indent: int = 0) -> str:
-    """Any gacalc value: multivector, matrix or quaternion."""
-    if hasattr(value, "coefficient_texts"):
-        return multivector_text(value, unicode, width, indent)
-    if hasattr(value, "rows") and hasattr(value, "cols"):
-        return matrix_text(value, unicode)
-    if all(hasattr(value, part) for part in ("a", "b", "c", "d")):
-        return quaternion_text(value, unicode)
-    return scalar_text(value, unicode)
+    """Any gacalc value, as its kind (gacalc.values) writes it; a bare sympy scalar too."""
+    from gacalc.values import kind_of
+
+    kind = kind_of(value)
+    if kind is None:
+        return scalar_text(value, unicode)
+    return kind.text(value, unicode, width, indent)
 
 
 def describe_value(value) -> str:
     """A short description of a value's kind, for error messages."""
-    if hasattr(value, "coefficient_texts"):
-        grades = sorted(value.grades())
-        if not grades:
-            return "the zero multivector"
-        names = {0: "scalar", 1: "vector", 2: "bivector", 3: "trivector"}
-        if len(grades) == 1:
-            return f"a {names[grades[0]]}"
-        return "a multivector of grades " + ", ".join(str(g) for g in grades)
-    if hasattr(value, "rows") and hasattr(value, "cols"):
-        return f"a {value.rows}x{value.cols} matrix"
-    return "a quaternion"
+    from gacalc.values import describe
+
+    return describe(value)

@@ -1,0 +1,86 @@
+"""Matrices (from ``matrix`` and ``pauli``): sympy matrices, complex entries allowed."""
+
+from __future__ import annotations
+
+import sympy
+
+from gacalc.language.errors import GacalcMathError, GacalcTypeError
+
+from . import register
+from .kind import ValueKind, require_number
+
+
+class MatrixKind(ValueKind):
+    name = "matrix"
+
+    def matches(self, value) -> bool:
+        return isinstance(value, sympy.MatrixBase)
+
+    def describe(self, value) -> str:
+        return f"a {value.rows}x{value.cols} matrix"
+
+    def text(self, value, unicode=False, width=78, indent=0) -> str:
+        from gacalc.printing.text import matrix_text
+
+        return matrix_text(value, unicode)
+
+    def add(self, left, right, sign, span):
+        if left.shape != right.shape:
+            return None
+        return left + right if sign > 0 else left - right
+
+    def multiply(self, left, right, span):
+        if left.cols != right.rows:
+            return None
+        return left * right
+
+    def scale(self, value, factor):
+        return value * factor
+
+    def negate(self, value):
+        return -value
+
+    def inverse(self, evaluator, value, span):
+        if value.rows != value.cols:
+            return super().inverse(evaluator, value, span)
+        if value.det() == 0:
+            raise GacalcMathError("this matrix is not invertible (determinant 0)", span)
+        return value.inv()
+
+    def power(self, evaluator, base, exponent, node):
+        span = node.exponent.span
+        require_number(exponent, span)
+        if not exponent.is_Integer or base.rows != base.cols:
+            raise GacalcTypeError("only square matrices, to integer powers", span)
+        return evaluator.inverse(base, node.span) ** int(-exponent) if exponent < 0 \
+            else base ** int(exponent)
+
+    def differences(self, left, right):
+        from gacalc.algebra import Multivector
+
+        if not self.matches(right) or left.shape != right.shape:
+            return None
+        return [Multivector.scalar(x) if not x.has(sympy.I) else _complex_mv(x)
+                for x in (left - right)]
+
+    def reassemble(self, like, differences):
+        entries = [d.scalar_part() + sympy.I * d["e123"] for d in differences]
+        return sympy.Matrix(like.rows, like.cols, entries)
+
+    def report(self, value, simplifier, against=None):
+        from gacalc.forms.report import VALUE, Report, ReportItem
+
+        complex_entries = any(x.has(sympy.I) for x in value)
+        m = simplifier.matrix(value, complex_entries)
+        return Report(f"{m.shape[0]}x{m.shape[1]} matrix", "matrix",
+                      [ReportItem("value", m, section=VALUE)], simplifier.complete)
+
+
+def _complex_mv(x):
+    """A complex scalar a + b i as the central multivector a + b I (Pauli picture)."""
+    from gacalc.algebra import Multivector
+
+    return Multivector({0: sympy.re(x), 7: sympy.im(x)})
+
+
+MATRIX = register(MatrixKind())
