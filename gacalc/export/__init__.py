@@ -6,84 +6,21 @@
     operation_counts(value, declared=None) -> {'MUL': n, 'ADD': n, ...}
     rotor_kernel_counts() -> the rotor-applied-to-vector figures for the benchmark
 
-value is a Multivector (anything with to_expr_dict()), a dict {basis index or name:
-coefficient}, a sympy Matrix or a lone scalar. declared maps names of declared symbolic
-values to their kind ('scalar', 'vector', 'bivector', 'trivector', 'rotor', 'even',
-'multivector'): their components become one sequence argument (vector a: a1 a2 a3 ->
-a[0] a[1] a[2]; rotor R: R0 R23 R31 R12 -> R[0..3]); other free symbols become scalar
-arguments in name order. A declared rotor is taken as unit (R R~ = 1), an 'even' one not.
+The targets (name, file suffix, emitter, help line) are one table,
+gacalc.export.targets, which the token table, the parser, the session and help read;
+importing that table is cheap, so this package loads its emitters (and sympy) on first
+use of the API (gacalc.export.api).
 """
 
-import sympy
+_API = ('emit', 'latex_of', 'write_atomically', 'operation_counts', 'rotor_kernel_counts',
+        'ExportError', 'TARGETS', 'DEFAULT_NAME')
 
-from . import c as _c
-from . import latex as _latex
-from . import python as _python
-from .common import DEFAULT_NAME, TARGETS, ExportError, read_options, read_value
-from .files import write_atomically
-from . import rotor_kernel as _rotor_kernel
-
-__all__ = ['emit', 'latex_of', 'write_atomically', 'operation_counts',
-           'rotor_kernel_counts', 'ExportError', 'TARGETS', 'DEFAULT_NAME']
+__all__ = list(_API)
 
 
-def emit(target, value, *, name=None, declared=None, options=None):
-    """The text of value for target ('latex', 'python', 'numpy' or 'c').
+def __getattr__(name):
+    if name not in _API:
+        raise AttributeError(f"module 'gacalc.export' has no attribute {name!r}")
+    from . import api
 
-    options: {'float': True} for C in float, {'wedge': True} for LaTeX blades as wedge
-    products of basis vectors, {'aligned': True/False/None} for LaTeX's multi-line form
-    (None: automatic). Options that do not concern the target are ignored.
-    Raises ExportError with a one-line message for anything it cannot write.
-    """
-    options = read_options(options)
-    data = read_value(value)
-    if target == 'latex':
-        return _latex.render(data, name=name, options=options)
-    if target in ('python', 'numpy'):
-        return _python.render(data, name=name, declared=declared, numpy=target == 'numpy')
-    if target == 'c':
-        return _c.render(data, name=name, declared=declared, single=bool(options.get('float')))
-    raise ExportError(f"unknown export target {target!r} (known: {', '.join(TARGETS)})")
-
-
-def latex_of(value, options=None):
-    """A single LaTeX fragment (math-mode body, no delimiters), e.g. for _repr_latex_."""
-    return _latex.render(read_value(value), options=read_options(options))
-
-
-def operation_counts(value, declared=None):
-    """sympy.count_ops of the C code emit('c', value, declared=declared) writes."""
-    return _c.operation_counts(read_value(value), declared)
-
-
-def rotor_kernel_counts():
-    """Operation counts (sympy.count_ops) for R x R~ with a symbolic rotor R0 R23 R31 R12
-    and vector x1 x2 x3, for the benchmark.
-
-    'expanded': the components written out as polynomials, nothing shared;
-    'cse': the C code for them with sympy.cse alone (R and x not declared);
-    'cse_grouped': the same with x declared, so grouped by x1 x2 x3 (a rotation matrix);
-    'emitted': the C code for a declared rotor R and vector x (the rotor kernel);
-    'trade_reference': the optimised quaternion-vector rotation, 15 multiplications
-    and 15 additions (a fact of the trade).
-    """
-    rotor = _rotor_kernel.rotor_symbols('R')
-    vector = _rotor_kernel.vector_symbols('x')
-    components = _rotor_kernel.sandwich_components(rotor, vector)
-    value = dict(zip((1, 2, 3), components))
-    expanded = sympy.Integer(0)
-    for expr in components:
-        expanded += sympy.count_ops(expr, visual=True)
-    return {
-        'expanded': _counts_of(expanded),
-        'cse': operation_counts(value, {}),
-        'cse_grouped': operation_counts(value, {'x': 'vector'}),
-        'emitted': operation_counts(value, {'R': 'rotor', 'x': 'vector'}),
-        'trade_reference': {'ADD': 15, 'MUL': 15},
-    }
-
-
-def _counts_of(visual):
-    return dict(sorted((str(term), int(coefficient))
-                       for term, coefficient in visual.as_coefficients_dict().items()
-                       if term.is_Symbol))
+    return getattr(api, name)

@@ -148,3 +148,8 @@ def operation_counts(value, declared=None):
     """sympy.count_ops of what render writes for value: {'MUL': n, 'ADD': n, ...}."""
     plan, _, _ = plan_for(value, declared)
     return count_operations(plan)
+
+
+def emit(value, name=None, declared=None, options=None):
+    """The entry of the export-target table (gacalc.export.targets)."""
+    return render(value, name=name, declared=declared, single=bool((options or {}).get('float')))

@@ -37,7 +37,6 @@ KIND_BASIS = {
 KINDS = tuple(KIND_SUFFIXES) + ('scalar',)
 
 DEFAULT_NAME = 'gacalc_value'
-TARGETS = ('latex', 'python', 'numpy', 'c')
 _OPTION_NAMES = {'float', 'wedge', 'aligned'}
 _IDENTIFIER = re.compile(r'[A-Za-z][A-Za-z0-9_]*\Z')
 

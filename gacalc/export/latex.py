@@ -137,3 +137,8 @@ def render(value, name=None, options=None):
     else:
         rows = [f'{lead} &= {lines[0]}'] + [r'&\quad ' + line for line in lines[1:]]
     return '\\begin{aligned}\n' + ' \\\\\n'.join(rows) + '\n\\end{aligned}'
+
+
+def emit(value, name=None, declared=None, options=None):
+    """The entry of the export-target table (gacalc.export.targets)."""
+    return render(value, name=name, options=options)

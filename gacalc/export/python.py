@@ -124,3 +124,13 @@ def _return_lines(value, outputs, numpy):
     if numpy:
         return [f'{INDENT}return tuple(numpy.broadcast_arrays('] + listed + [f'{INDENT}))']
     return [f'{INDENT}return ('] + listed + [f'{INDENT})']
+
+
+def emit(value, name=None, declared=None, options=None):
+    """The entry of the export-target table (gacalc.export.targets)."""
+    return render(value, name=name, declared=declared)
+
+
+def emit_numpy(value, name=None, declared=None, options=None):
+    """The numpy variant's entry of the export-target table."""
+    return render(value, name=name, declared=declared, numpy=True)

@@ -21,6 +21,8 @@ from __future__ import annotations
 
 from typing import Iterator
 
+from gacalc.export import targets as export_targets
+
 from . import syntax as S
 from . import tokens as T
 from .errors import GacalcLimitError, GacalcSyntaxError, Source, Span
@@ -550,8 +552,9 @@ class _StatementParser:
     def _statement_emit(self) -> S.Statement:
         keyword = self.advance()
         target = self.peek()
-        if not (target.is_name and target.value in T.EMIT_TARGETS):
-            self.fail("emit needs a target: emit latex EXPR, emit python EXPR or emit c EXPR")
+        if not (target.is_name and target.value in export_targets.TARGETS):
+            forms = [f"emit {t.name} EXPR" for t in export_targets.described()]
+            self.fail("emit needs a target: " + ", ".join(forms[:-1]) + " or " + forms[-1])
         self.advance()
         if self.at_end():
             self.fail(f"emit {target.value} needs a value")

@@ -23,10 +23,12 @@ import traceback
 from typing import Iterator
 
 from gacalc.algebra import AlgebraError
+from gacalc.export import targets as export_targets
 from gacalc.values import describe, kind_of
 
 from . import syntax as S
-from .builtins import BUILTINS, HELP_TOPICS, help_text
+from .builtins import BUILTINS
+from .help import help_text, topic_entry
 from .errors import (GacalcError, GacalcFileError, GacalcInternalError, GacalcInterrupt,
                      GacalcLimitError, GacalcMathError, GacalcNameError, GacalcTypeError,
                      Source, Span)
@@ -137,7 +139,7 @@ class Session:
         for name, builtin in sorted(BUILTINS.items()):
             words.append((name, builtin.help))
         for word in T.KEYWORDS + T.DECLARATION_KINDS:
-            topic = HELP_TOPICS.get(word)
+            topic = topic_entry(word)
             words.append((word, topic[0] if topic else "keyword"))
         words.extend([("pi", "the constant pi"), ("I", "the pseudoscalar e123"),
                       ("ans", "the last result")])
@@ -485,7 +487,8 @@ class Session:
             raise GacalcError(f"emit {statement.target}: {error}", statement.span) from None
         path = None
         if self.emit_dir is not None:
-            relative = statement.path or f"{name or 'gacalc_value'}{_EMIT_SUFFIX[statement.target]}"
+            suffix = export_targets.TARGETS[statement.target].suffix
+            relative = statement.path or f"{name or 'gacalc_value'}{suffix}"
             path = os.path.abspath(os.path.join(self.emit_dir, os.path.expanduser(relative)))
         elif statement.path is not None:
             path = _resolve(statement.path, statement, context)
@@ -659,9 +662,6 @@ def _unique(texts) -> list:
             seen.add(text)
             out.append(text)
     return out
-
-
-_EMIT_SUFFIX = {"latex": ".tex", "python": ".py", "numpy": ".py", "c": ".c"}
 
 
 def _resolve(path: str, statement: S.Statement, context: _RunContext) -> str:

@@ -37,6 +37,8 @@ Lexical rules
 
 from __future__ import annotations
 
+from gacalc.export import targets as _export_targets
+
 # Token kinds -------------------------------------------------------------------
 NEWLINE = "NEWLINE"
 WHITESPACE = "WHITESPACE"
@@ -99,9 +101,11 @@ KEYWORDS = ("check", "given", "assume", "show", "against", "emit", "as", "to",
             "use", "save", "help")
 # Declarations: reserved words, except that "rotor" followed by "(" is the function.
 DECLARATION_KINDS = ("scalar", "vector", "bivector", "rotor", "multivector")
-EMIT_TARGETS = ("latex", "python", "numpy", "c")
+# The export targets of gacalc.export.targets (the parser reads that table itself, so a
+# target registered later is accepted too).
+EMIT_TARGETS = tuple(_export_targets.TARGETS)
 # Words with a meaning inside one statement only; elsewhere they are ordinary names.
-SOFT_KEYWORDS = ("unit", "none", "force", "latex", "python", "numpy", "c")
+SOFT_KEYWORDS = ("unit", "none", "force", *EMIT_TARGETS)
 CONSTANTS = ("pi", "I")
 
 GREEK_LETTERS = {

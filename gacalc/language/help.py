@@ -1,0 +1,138 @@
+"""Help on statements and topics (``help``, ``help NAME``), and the overview.
+
+Functions document themselves in their registration (gacalc.language.builtins) and
+export targets in theirs (gacalc.export.targets); this module holds the rest and puts
+the pieces together.
+"""
+
+from __future__ import annotations
+
+from gacalc.export import targets as export_targets
+
+from .builtins import BUILTINS
+
+_OPERATORS_HELP = """\
+operators, loosest to tightest:
+  A + B   A - B                 sum, difference
+  A * B   A B   A / B           geometric product (also side by side), A B^-1
+  A /\\ B  A _| B  A |_ B  A . B outer product, left and right contraction, inner
+                                product (Unicode: ∧ ⌋ ⌊ ·); one level, tighter than the
+                                geometric product; mixing two of them needs parentheses
+  -A                            negation
+  A~  A^k  A^-1  A²             reverse (also †), integer power, inverse
+  <A>k  <A>                     grade-k part, scalar part
+  f(x, y)  ( ... )              call, grouping
+  example: a . b c is (a . b) c"""
+
+def _emit_help() -> tuple[str, str]:
+    """The emit topic, from the export-target table (a new target appears by itself)."""
+    targets = export_targets.TARGETS
+    lines = [t.help for t in export_targets.described()]
+    lines.append("  example: vector a, b; emit python a /\\ b as wedge")
+    return (f"code for a value: emit {'|'.join(targets)} EXPR [as NAME] [to \"file\"]",
+            "\n".join(lines))
+
+
+HELP_TOPICS: dict[str, tuple[str, str]] = {
+    "check": ("check an identity: check L == R [given C = D, ...]",
+              "check L == R [given C = D, ...]\n"
+              "  reports held, FAILED (with the simplified L - R) or undecided\n"
+              "  example: vector a, b; check a b == a . b + a /\\ b"),
+    "given": ("side conditions of one check", "check L == R given C = D, E = F\n"
+              "  example: vector a, b; check (a + b)^2 == a^2 + b^2 given a . b = 0"),
+    "assume": ("session-wide side conditions: assume C = D, ... / assume none",
+               "assume C = D, ...   adds conditions used by every later simplification\n"
+               "assume none         drops them (declaration conditions stay)\n"
+               "assume              lists the active conditions\n"
+               "  example: vector a, b; assume a . b = 0"),
+    "show": ("derived forms of a value: show EXPR [against B], show latex EXPR",
+             "show EXPR            the value's grades, norms and what it is (rotor, "
+             "blade, ...)\n"
+             "show EXPR against B  the same, relative to B\n"
+             "show latex EXPR      the report in LaTeX\n"
+             "  example: show rotor(e12, pi/3)"),
+    "against": ("compare a shown value with another: show EXPR against B",
+                "  example: show e1 + e2 against e12"),
+    "as": ("the function name of emitted code", "  example: emit c a b as product"),
+    "to": ("the file emitted code is written to", "  example: emit c a b to \"ab.c\""),
+    "use": ("run the statements of a file: use \"file.gac\"",
+            "use \"file.gac\"  paths are relative to the file that uses them\n"
+            "  example: use \"mirrors.gac\""),
+    "save": ("save the session as a script: save \"file.gac\" [force]",
+             "save \"file.gac\"        writes a script that re-creates names, functions,\n"
+             "                       declarations and conditions; it overwrites only a\n"
+             "                       file saved by gacalc\n"
+             "save \"file.gac\" force  overwrites any file\n"
+             "  example: save \"session.gac\""),
+    "help": ("help, help NAME", "help        this overview\nhelp NAME   one function, "
+             "statement or topic (operators, names)\n  example: help rotor"),
+    "scalar": ("declare real scalar symbols: scalar t, u", "  example: scalar theta"),
+    "vector": ("declare symbolic vectors: vector a, b [unit]",
+               "vector a     a = a1*e1 + a2*e2 + a3*e3\n"
+               "vector n unit  adds the condition n1^2 + n2^2 + n3^2 = 1\n"
+               "  example: vector n unit"),
+    "bivector": ("declare symbolic bivectors: bivector B [unit]",
+                 "bivector B   B = B23*e23 + B31*e31 + B12*e12\n  example: bivector B unit"),
+    "multivector": ("declare general multivectors: multivector M",
+                    "multivector M   components M0 M1 M2 M3 M23 M31 M12 M123\n"
+                    "  example: multivector M"),
+    "unit": ("after a declaration: the declared values have norm 1",
+             "  example: vector n unit"),
+    "operators": ("operators and their precedence", _OPERATORS_HELP),
+    "names": ("names, numbers and symbols",
+              "names: a letter, then letters, digits and inner underscores (Greek letters\n"
+              "allowed: θ is theta). A name never assigned is a real scalar symbol.\n"
+              "Numbers are exact: 0.5 is 1/2; 2e1 is 2 times e1. Blades: e1, e2, e3, e12,\n"
+              "e123 (any index order: e21 = -e12); I is e123; pi; ans is the last result.\n"
+              "  example: x = 0.5 e1 + 2e2"),
+}
+_DECLARATION_HELP_ROTOR = ("declare a symbolic unit rotor: rotor R",
+                           "rotor R   R = R0 + R23*e23 + R31*e31 + R12*e12 with "
+                           "R0^2 + R23^2 + R31^2 + R12^2 = 1\n  example: rotor R")
+_OPERATOR_WORDS = {"/\\", "∧", "_|", "⌋", "|_", "⌊", ".", "·", "⋅", "~", "†", "^", "<",
+                   ">", "*", "+", "-", "/", "==", "="}
+
+
+def topic_entry(topic: str) -> tuple[str, str] | None:
+    """(one-line summary, text) of a statement or topic, or None."""
+    if topic == "emit":
+        return _emit_help()
+    return HELP_TOPICS.get(topic)
+
+
+def help_text(topic: str | None, functions: dict | None = None) -> str | None:
+    """The help text of a topic (None: the overview), or None when there is none."""
+    functions = functions or {}
+    if topic is None:
+        return _overview()
+    if topic in _OPERATOR_WORDS:
+        topic = "operators"
+    lines = []
+    if topic in BUILTINS:
+        function = BUILTINS[topic]
+        lines.append(f"{function.signature}  {function.help}\n  example: {function.example}")
+    if topic in functions:
+        lines.append(f"{functions[topic].text}  (your function)")
+    if topic == "rotor":
+        lines.append(_DECLARATION_HELP_ROTOR[1])
+    elif topic_entry(topic) is not None:
+        lines.append(topic_entry(topic)[1])
+    return "\n".join(lines) if lines else None
+
+
+def _overview() -> str:
+    categories: dict[str, list[str]] = {}
+    for name in sorted(BUILTINS):
+        categories.setdefault(BUILTINS[name].category, []).append(name)
+    lines = ["statements:",
+             "  EXPR   NAME = EXPR   f(x, y) = EXPR   (a trailing ';' hides the result)",
+             "  scalar | vector | bivector | rotor | multivector NAME, ... [unit]",
+             "  check L == R [given C = D, ...]    assume C = D, ... | assume none",
+             "  show [latex] EXPR [against B]      emit "
+             f"{'|'.join(export_targets.TARGETS)} EXPR [as NAME] [to \"file\"]",
+             "  use \"file\"   save \"file\" [force]   help [NAME]",
+             "functions:"]
+    for category, names in categories.items():
+        lines.append(f"  {category + ':':17}{', '.join(names)}")
+    lines.append("more: help operators, help names, help NAME")
+    return "\n".join(lines)
