@@ -13,27 +13,17 @@ import re
 import sympy
 from sympy.printing.codeprinter import PrintMethodNotImplementedError
 
-BASIS_NAMES = ('1', 'e1', 'e2', 'e3', 'e23', 'e31', 'e12', 'e123')
-BASIS_GRADES = (0, 1, 1, 1, 2, 2, 2, 3)
+from gacalc.algebra.basis import BASIS_NAMES
+from gacalc.algebra.symbolic import KIND_COMPONENTS
+
 BASIS_ORDER_TEXT = ', '.join(BASIS_NAMES)
 
-# Component names of each declared kind, in the order they are passed as a sequence.
-KIND_SUFFIXES = {
-    'vector': ('1', '2', '3'),
-    'bivector': ('23', '31', '12'),
-    'trivector': ('123',),
-    'rotor': ('0', '23', '31', '12'),
-    'even': ('0', '23', '31', '12'),
-    'multivector': ('0', '1', '2', '3', '23', '31', '12', '123'),
-}
-KIND_BASIS = {
-    'vector': ('e1', 'e2', 'e3'),
-    'bivector': ('e23', 'e31', 'e12'),
-    'trivector': ('e123',),
-    'rotor': ('1', 'e23', 'e31', 'e12'),
-    'even': ('1', 'e23', 'e31', 'e12'),
-    'multivector': BASIS_NAMES,
-}
+# Component names of each declared kind, in the order they are passed as a sequence
+# (the core's table of declared kinds, gacalc.algebra.symbolic).
+KIND_SUFFIXES = {kind: suffixes for kind, (_, suffixes) in KIND_COMPONENTS.items()
+                 if kind != 'scalar'}
+KIND_BASIS = {kind: tuple(BASIS_NAMES[index] for index in indices)
+              for kind, (indices, _) in KIND_COMPONENTS.items() if kind != 'scalar'}
 KINDS = tuple(KIND_SUFFIXES) + ('scalar',)
 
 DEFAULT_NAME = 'gacalc_value'

@@ -8,7 +8,7 @@ layout for long results.
 from sympy.printing.conventions import split_super_sub
 from sympy.printing.latex import LatexPrinter
 
-from .common import BASIS_GRADES, BASIS_NAMES
+from gacalc.algebra.basis import BASIS_GRADES, BASIS_NAMES
 
 # Past ALIGN_AFTER characters of LaTeX a result is set as an aligned block, one grade
 # per line (one term per line for a grade longer than LINE_LIMIT).

@@ -199,12 +199,7 @@ def _op(kind: str, unicode: bool) -> str:
 
 
 def _greek(name: str, unicode: bool) -> str:
-    if not unicode:
-        return name
-    stem = name.rstrip("0123456789")
-    if stem in T.GREEK_LETTERS:
-        return T.GREEK_LETTERS[stem] + name[len(stem):]
-    return name
+    return T.greek(name) if unicode else name
 
 
 def unparse(node: Node, unicode: bool = False, parenthesize: bool = False) -> str:

@@ -118,6 +118,15 @@ GREEK_LETTERS = {
     "Sigma": "Σ", "Upsilon": "Υ", "Phi": "Φ", "Psi": "Ψ", "Omega": "Ω",
 }
 # Greek letters read on input -> spelled-out name (variant forms included).
+
+
+def greek(name: str) -> str:
+    """The Unicode spelling of a name: theta -> θ, theta2 -> θ2; other names unchanged."""
+    stem = name.rstrip("0123456789")
+    letter = GREEK_LETTERS.get(stem)
+    return letter + name[len(stem):] if letter else name
+
+
 GREEK_INPUT = {letter: name for name, letter in GREEK_LETTERS.items()}
 GREEK_INPUT.update({"ϑ": "theta", "ϕ": "phi", "ϵ": "epsilon", "ς": "sigma",
                     "Α": "Alpha", "Β": "Beta", "Ε": "Epsilon", "Ζ": "Zeta", "Η": "Eta",

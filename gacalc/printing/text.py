@@ -30,10 +30,9 @@ from __future__ import annotations
 
 import re
 
-from gacalc.language.tokens import GREEK_LETTERS
+from gacalc.algebra.basis import BASIS_GRADES, BASIS_NAMES
+from gacalc.language.tokens import greek
 
-BASIS_NAMES = ("1", "e1", "e2", "e3", "e23", "e31", "e12", "e123")
-BASIS_GRADES = (0, 1, 1, 1, 2, 2, 2, 3)
 DEFAULT_WIDTH = 78
 UNICODE_MINUS = "\u2212"
 _SUPERSCRIPTS = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
@@ -67,13 +66,6 @@ def split_sign(text: str) -> tuple[int, str]:
 _IDENTIFIER = re.compile(r"[A-Za-z][A-Za-z0-9_]*")
 _INTEGER_POWER = re.compile(r"\^(\d+)|\^\((-\d+)\)")
 _STAR = re.compile(r"\*")
-
-
-def greek(name: str) -> str:
-    """theta -> θ, theta2 -> θ2; other names unchanged."""
-    stem = name.rstrip("0123456789")
-    letter = GREEK_LETTERS.get(stem)
-    return letter + name[len(stem):] if letter else name
 
 
 def unicode_text(ascii_text: str) -> str:
