@@ -13,7 +13,6 @@ the short expressions quoted inside notes (written as gacalc input text).
 
 from __future__ import annotations
 
-import time
 from dataclasses import dataclass, field
 from fractions import Fraction
 
@@ -28,8 +27,7 @@ VALUE, INVOLUTIONS, MEASURES, KIND, FORMS, AGAINST = (
 GRADE_LABELS = {0: "scalar part", 1: "vector part", 2: "bivector part", 3: "trivector part"}
 QUATERNION_NOTE = "Hamilton: i = -e23, j = -e31, k = -e12"
 
-REPORT_BUDGET = 30.0    # seconds of simplification for a whole report
-MIN_CALL_BUDGET = 0.5   # ... but every call gets at least this much
+REPORT_BUDGET = 30.0    # seconds for a whole report made without a session's deadline
 
 
 @dataclass(frozen=True)
@@ -107,22 +105,25 @@ class Report:
 
 
 class _Simplifier:
-    """gacalc.simplify with the session's conditions, under one time budget for the report.
+    """gacalc.simplify with the session's conditions, under one deadline for the report.
 
-    Each call gets what is left of REPORT_BUDGET (at most the simplifier's own default,
-    at least MIN_CALL_BUDGET), so a large symbolic value yields a correct report marked
-    incomplete in bounded time rather than dozens of full-length attempts.
+    Each call gets ``call_seconds`` (the session's --budget; the simplifier's default
+    without a session) but never runs past the report's deadline (the statement's,
+    passed down by the session; REPORT_BUDGET without one), so a large symbolic value
+    yields a correct report marked incomplete in bounded time rather than dozens of
+    full-length attempts.
     """
 
-    def __init__(self, conditions, total=None):
+    def __init__(self, conditions, deadline=None, call_seconds=None):
+        from gacalc.simplify import DEFAULT_BUDGET, Budget
+
         self.conditions = tuple(conditions or ())
         self.complete = True
-        self.deadline = time.monotonic() + (REPORT_BUDGET if total is None else total)
+        self.deadline = deadline if deadline is not None else Budget(REPORT_BUDGET)
+        self.call_seconds = DEFAULT_BUDGET if call_seconds is None else call_seconds
 
-    def budget(self) -> float:
-        from gacalc.simplify import DEFAULT_BUDGET
-
-        return min(DEFAULT_BUDGET, max(MIN_CALL_BUDGET, self.deadline - time.monotonic()))
+    def budget(self):
+        return self.deadline.within(self.call_seconds)
 
     def mv(self, x: Multivector) -> Multivector:
         from gacalc.simplify import simplify
@@ -181,17 +182,20 @@ def _condition(e, s: _Simplifier):
 # the report
 
 
-def build_report(value, session=None, against=None, conditions=()) -> Report:
+def build_report(value, session=None, against=None, conditions=(), deadline=None,
+                 call_seconds=None) -> Report:
     """The derived forms of value (optionally relative to the blade `against`).
 
     value: Multivector, a scalar (int, Fraction, sympy Expr), a sympy Matrix or a
     sympy Quaternion (the last two are reported as they are).  conditions: sympy Exprs
     equal to zero (side conditions active in the session).  session is accepted for
-    display settings only; the report does not depend on it.
+    display settings only; the report does not depend on it.  deadline: a
+    gacalc.simplify.Budget the whole report keeps to (the statement's); call_seconds:
+    the budget of one simplification (the session's --budget).
     """
     from gacalc.values import kind_of
 
-    s = _Simplifier(conditions)
+    s = _Simplifier(conditions, deadline, call_seconds)
     kind = kind_of(value)
     if kind is None:
         value = _as_multivector(value)

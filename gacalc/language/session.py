@@ -290,13 +290,7 @@ class Session:
         """The simplifier's budget: its own, but never past the statement's deadline
         (simplify arms its own SIGALRM alarm; the statement's deadline uses another
         signal, see gacalc.language.watchdog)."""
-        from gacalc.simplify import Budget
-
-        seconds = float(self.budget)
-        remaining = self._clock.remaining()
-        if remaining is not None:
-            seconds = min(seconds, max(remaining - MIN_SIMPLIFY_BUDGET, 0.0))
-        return Budget(seconds)
+        return self._clock.within(float(self.budget), MIN_SIMPLIFY_BUDGET)
 
     def _do_ExpressionStatement(self, statement, state, results, context):
         value = self._evaluate(statement.expr, state, results, statement)
@@ -466,7 +460,9 @@ class Session:
         for shown in values:       # the report multiplies the value with itself (norms...)
             limits.check_chain([shown, shown, shown], statement.span, "the report of show")
         conditions = [c.expr for c in relevant_conditions(state.conditions(), values)]
-        report = build_report(value, session=self, against=against, conditions=conditions)
+        report = build_report(value, session=self, against=against, conditions=conditions,
+                              deadline=self._clock.within(None, MIN_SIMPLIFY_BUDGET),
+                              call_seconds=float(self.budget))
         text = report.to_latex() if statement.latex else report.to_text(self.unicode)
         results.append(self._result(ShowResult, statement, report=report, report_text=text,
                                     latex=statement.latex))

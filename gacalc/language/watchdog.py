@@ -30,6 +30,8 @@ import threading
 import time
 from contextlib import contextmanager
 
+from gacalc.simplify.budget import Budget
+
 _SIGNAL = getattr(signal, "SIGUSR1", None)
 REPEAT_SECONDS = 0.25     # past the deadline, the interrupt repeats this often
 
@@ -39,28 +41,19 @@ class StatementTimeout(BaseException):
     that no ``except Exception`` inside sympy or the core can swallow it."""
 
 
-class StatementClock:
-    """The deadline of the statement being run (None: no budget)."""
+class StatementClock(Budget):
+    """The deadline of the statement being run (None: no budget): a Budget whose
+    running out abandons the statement."""
 
     def __init__(self):
-        self.seconds: float | None = None
-        self.deadline: float | None = None
-
-    def start(self, seconds: float | None):
-        self.seconds = seconds
-        self.deadline = None if seconds is None else time.monotonic() + seconds
-
-    def remaining(self) -> float | None:
-        if self.deadline is None:
-            return None
-        return self.deadline - time.monotonic()
-
-    def expired(self) -> bool:
-        return self.deadline is not None and time.monotonic() >= self.deadline
+        super().__init__(None)
 
     def check(self):
         if self.deadline is not None and time.monotonic() >= self.deadline:
-            raise StatementTimeout()
+            self.exceeded()
+
+    def exceeded(self):
+        raise StatementTimeout()
 
 
 class _Alarm:

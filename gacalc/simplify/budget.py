@@ -1,4 +1,10 @@
-"""Time budgets for simplification: a deadline checked at safe points, and an alarm for sympy.
+"""Deadlines: the one type of time budget, and an alarm for sympy.
+
+A ``Budget`` is a deadline some seconds ahead (or none).  The same type serves every
+layer: a statement's wall-clock budget (gacalc.language.watchdog.StatementClock is a
+Budget whose ``check`` raises its own exception), the report of ``show`` and each
+simplification, which takes ``within(seconds)`` of whatever budget it runs under, so
+an inner budget never outlives an outer one.
 
 The alarm (SIGALRM, main thread only) interrupts long sympy calls that have no check
 points of their own; elsewhere only the explicit ``check`` calls enforce the budget.
@@ -6,6 +12,7 @@ points of their own; elsewhere only the explicit ``check`` calls enforce the bud
 
 from __future__ import annotations
 
+import math
 import signal
 import threading
 import time
@@ -17,16 +24,42 @@ class BudgetExceeded(Exception):
 
 
 class Budget:
-    def __init__(self, seconds: float):
+    """A deadline ``seconds`` from now; ``None`` (or infinity) is no deadline."""
+
+    def __init__(self, seconds: float | None = None):
+        self.start(seconds)
+
+    def start(self, seconds: float | None):
+        """Restart the deadline ``seconds`` from now (None: no deadline)."""
+        if seconds is not None and math.isinf(seconds):
+            seconds = None
         self.seconds = seconds
-        self.deadline = time.monotonic() + seconds
+        self.deadline = None if seconds is None else time.monotonic() + seconds
 
     def remaining(self) -> float:
+        """Seconds left (may be negative); infinity without a deadline."""
+        if self.deadline is None:
+            return math.inf
         return self.deadline - time.monotonic()
 
+    def expired(self) -> bool:
+        return self.deadline is not None and time.monotonic() >= self.deadline
+
     def check(self):
-        if time.monotonic() > self.deadline:
-            raise BudgetExceeded(f"time budget of {self.seconds:g} s ran out")
+        if self.deadline is not None and time.monotonic() > self.deadline:
+            self.exceeded()
+
+    def exceeded(self):
+        """What running out means; a subclass raises its own exception."""
+        raise BudgetExceeded(f"time budget of {self.seconds:g} s ran out")
+
+    def within(self, seconds: float | None, margin: float = 0.0) -> "Budget":
+        """A new budget of ``seconds`` that ends no later than this one (``margin`` seconds
+        before it)."""
+        left = max(self.remaining() - margin, 0.0)
+        if seconds is None:
+            return Budget(left)
+        return Budget(min(float(seconds), left))
 
 
 def _alarm(signum, frame):
@@ -47,6 +80,9 @@ def time_limit(budget: Budget):
     remaining = budget.remaining()
     if remaining <= 0:
         raise BudgetExceeded("time budget ran out")
+    if math.isinf(remaining):
+        yield
+        return
     previous = signal.signal(signal.SIGALRM, _alarm)
     signal.setitimer(signal.ITIMER_REAL, remaining)
     try:
