@@ -97,20 +97,13 @@ def _surprising(node) -> bool:
     """A reading that can surprise: a wedge-family chain inside a product without
     parentheses (``a . b c`` is (a . b) c), or a division followed by more factors
     (``a / b c`` is a b^-1 c)."""
-    pending = [node]
-    while pending:
-        current = pending.pop()
+    for current in S.walk(node):
         if isinstance(current, S.Product):
             if any(isinstance(f, S.Wedge) and not _explicitly_grouped(f)
                    for f in current.factors):
                 return True
             if "/" in current.ops[:-1]:
                 return True
-        for value in vars(current).values():
-            if isinstance(value, S.Node):
-                pending.append(value)
-            elif isinstance(value, list):
-                pending.extend(item for item in value if isinstance(item, S.Node))
     return False
 
 

@@ -12,7 +12,6 @@ This module knows nothing of parsing or printing values: the Session does both.
 
 from __future__ import annotations
 
-import datetime
 import os
 import sys
 from dataclasses import dataclass, field
@@ -61,27 +60,18 @@ def stream_accepts_unicode(stream) -> bool:
 
 # Internal errors ------------------------------------------------------------------------
 def log_internal_error(error) -> str | None:
-    """Append an internal error's traceback to the state-directory log; its path or None."""
-    from gacalc import __version__
-    from gacalc.paths import ensure_parent, internal_error_log
+    """The log entry of an internal error: the path the session wrote it to, or (for an
+    error that never went through a session) a new entry by gacalc.diagnostics, the one
+    writer of the log.  The path or None when the log cannot be written."""
+    if hasattr(error, "log_path"):
+        return error.log_path
+    from gacalc.diagnostics import write_internal_error
 
-    path = internal_error_log()
-    if not ensure_parent(path):
-        return None
-    stamp = datetime.datetime.now().isoformat(timespec="seconds")
-    where = error.location_text() or "(no position)"
-    statement = ""
-    if getattr(error, "span", None) is not None:
-        statement = error.span.text
-    entry = (f"--- {stamp} gacalc {__version__} python {sys.version.split()[0]}\n"
-             f"{where}: {error.message}\nstatement: {statement}\n"
-             f"{getattr(error, 'traceback_text', '')}\n")
-    try:
-        with open(path, "a", encoding="utf-8") as handle:
-            handle.write(entry)
-    except OSError:
-        return None
-    return str(path)
+    statement = error.span.text if getattr(error, "span", None) is not None else ""
+    path = write_internal_error(error, statement, error.location_text(),
+                                getattr(error, "traceback_text", None))
+    error.log_path = str(path) if path is not None else None
+    return error.log_path
 
 
 def error_text(error) -> str:

@@ -208,6 +208,9 @@ def test_internal_error_is_logged_in_the_state_directory(tmp_path, monkeypatch):
     assert log.is_file()
     assert "RuntimeError: simulated bug" in log.read_text()
     assert tally.exit_status() == EXIT_ERROR
+    # one bug, one entry: the session writes it and the runner names the same file
+    assert log.read_text().count("--- ") == 1
+    assert str(log) in err
 
 
 def test_log_internal_error_without_a_writable_directory(monkeypatch, tmp_path):

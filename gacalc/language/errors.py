@@ -64,6 +64,12 @@ class Span:
         return self.source.filename
 
     @property
+    def location(self) -> str:
+        """'file:line:column' (``<input>`` for typed text)."""
+        line, column = self.source.line_column(self.start)
+        return f"{self.source.display_name}:{line}:{column}"
+
+    @property
     def text(self) -> str:
         return self.source.text[self.start:self.end]
 
@@ -109,7 +115,7 @@ class GacalcError(Exception):
     def location_text(self) -> str:
         if self.span is None:
             return ""
-        return f"{self.span.source.display_name}:{self.line}:{self.column}"
+        return self.span.location
 
     def __str__(self) -> str:
         where = self.location_text()

@@ -56,9 +56,7 @@ class Result:
         except Exception as error:       # noqa: BLE001 - our bug, reported, not raised
             from gacalc.diagnostics import summary, write_internal_error
 
-            where = ""
-            if self.span is not None:
-                where = f"{self.span.source.display_name}:{self.line}:{self.column}"
+            where = self.span.location if self.span is not None else ""
             path = write_internal_error(error, self.statement_text, where)
             message = f"internal error while printing this result ({summary(error)})"
             return message + (f"; the traceback is in {path}" if path is not None else "")

@@ -202,52 +202,90 @@ def _greek(name: str, unicode: bool) -> str:
     return T.greek(name) if unicode else name
 
 
+def walk(node: Node):
+    """Every node of a tree, the node itself first (iteratively: trees may be wide)."""
+    pending = [node]
+    while pending:
+        current = pending.pop()
+        yield current
+        for value in vars(current).values():
+            if isinstance(value, Node):
+                pending.append(value)
+            elif isinstance(value, list):
+                pending.extend(item for item in value if isinstance(item, Node))
+
+
 def unparse(node: Node, unicode: bool = False, parenthesize: bool = False) -> str:
     """Text of an expression node; ``parenthesize`` makes every grouping explicit."""
-    text, _ = _unparse(node, unicode, parenthesize)
+    text, _ = _Unparser(unicode, parenthesize).visit(node)
     return text
 
 
-def _wrap(child, at_least: int, unicode: bool, full: bool) -> str:
-    text, prec = _unparse(child, unicode, full)
-    if prec < at_least or (full and prec < _PREC_ATOM and not isinstance(child, Number)):
-        return f"({text})"
-    return text
+class _Unparser:
+    """One method per expression node, like ``ast.NodeVisitor``: each returns the text
+    and the precedence level of what it wrote."""
 
+    def __init__(self, unicode: bool, full: bool):
+        self.unicode = unicode
+        self.full = full
 
-def _unparse(node, unicode, full):
-    if isinstance(node, Number):
+    def visit(self, node) -> tuple[str, int]:
+        method = getattr(self, "visit_" + type(node).__name__, None)
+        if method is None:
+            raise TypeError(f"not an expression node: {node!r}")
+        return method(node)
+
+    def text(self, node, full: bool | None = None) -> str:
+        """A child's text, unwrapped (inside brackets of its own)."""
+        if full is None or full == self.full:
+            return self.visit(node)[0]
+        return _Unparser(self.unicode, full).visit(node)[0]
+
+    def wrap(self, child, at_least: int, full: bool | None = None) -> str:
+        full = self.full if full is None else full
+        text, prec = (self if full == self.full else _Unparser(self.unicode, full)).visit(child)
+        if prec < at_least or (full and prec < _PREC_ATOM and not isinstance(child, Number)):
+            return f"({text})"
+        return text
+
+    def op(self, kind: str) -> str:
+        return _op(kind, self.unicode)
+
+    def visit_Number(self, node):
         return node.text, _PREC_ATOM
-    if isinstance(node, Name):
-        return _greek(node.name, unicode), _PREC_ATOM
-    if isinstance(node, Sum):
-        parts = [_wrap(node.terms[0], _PREC_SUM, unicode, full)]
+
+    def visit_Name(self, node):
+        return _greek(node.name, self.unicode), _PREC_ATOM
+
+    def visit_Sum(self, node):
+        parts = [self.wrap(node.terms[0], _PREC_SUM)]
         for sign, term in zip(node.signs[1:], node.terms[1:]):
-            op = _op(T.PLUS, unicode) if sign > 0 else _op(T.MINUS, unicode)
-            parts.append(f" {op} {_wrap(term, _PREC_PRODUCT, unicode, full)}")
+            op = self.op(T.PLUS) if sign > 0 else self.op(T.MINUS)
+            parts.append(f" {op} {self.wrap(term, _PREC_PRODUCT)}")
         return "".join(parts), _PREC_SUM
-    if isinstance(node, Product) and full and "/" in node.ops[1:] and len(node.factors) > 2:
-        # left to right: ((a / b) c) ...
-        text = _wrap(node.factors[0], _PREC_PRODUCT, unicode, full)
-        for index, (op, factor) in enumerate(zip(node.ops[1:], node.factors[1:])):
-            written = {"*": " * ", "/": " / ", "": " "}[op]
-            if index:
-                text = f"({text})"
-            text += written + _wrap(factor, _PREC_WEDGE, unicode, full)
-        return text, _PREC_PRODUCT
-    if isinstance(node, Product):
-        parts = [_wrap(node.factors[0], _PREC_PRODUCT, unicode, full)]
+
+    def visit_Product(self, node):
+        if self.full and "/" in node.ops[1:] and len(node.factors) > 2:
+            # left to right: ((a / b) c) ...
+            text = self.wrap(node.factors[0], _PREC_PRODUCT)
+            for index, (op, factor) in enumerate(zip(node.ops[1:], node.factors[1:])):
+                written = _PRODUCT_OPS[op]
+                if index:
+                    text = f"({text})"
+                text += written + self.wrap(factor, _PREC_WEDGE)
+            return text, _PREC_PRODUCT
+        parts = [self.wrap(node.factors[0], _PREC_PRODUCT)]
         for op, factor in zip(node.ops[1:], node.factors[1:]):
-            written = {"*": " * ", "/": " / ", "": " "}[op]
-            text = _wrap(factor, _PREC_WEDGE, unicode, full)
+            text = self.wrap(factor, _PREC_WEDGE)
             if op == "" and isinstance(factor, Negate) and not text.startswith("("):
                 text = f"({text})"      # 'a -b' would read as a difference
-            parts.append(written + text)
+            parts.append(_PRODUCT_OPS[op] + text)
         return "".join(parts), _PREC_PRODUCT
-    if isinstance(node, Wedge):
-        op = f" {_op(node.op, unicode)} "
-        texts = [_wrap(operand, _PREC_NEGATE, unicode, full) for operand in node.operands]
-        if full and len(texts) > 2:
+
+    def visit_Wedge(self, node):
+        op = f" {self.op(node.op)} "
+        texts = [self.wrap(operand, _PREC_NEGATE) for operand in node.operands]
+        if self.full and len(texts) > 2:
             if node.op == T.LCONTRACT:   # groups from the right
                 text = texts[-1]
                 for index, left in enumerate(reversed(texts[:-1])):
@@ -258,27 +296,32 @@ def _unparse(node, unicode, full):
                     text = f"({text}){op}{right}" if index else f"{text}{op}{right}"
             return text, _PREC_WEDGE
         return op.join(texts), _PREC_WEDGE
-    if isinstance(node, Negate):
-        return f"{_op(T.MINUS, unicode)}{_wrap(node.operand, _PREC_NEGATE, unicode, full)}", \
-            _PREC_NEGATE
-    if isinstance(node, Reverse):
-        return f"{_wrap(node.operand, _PREC_POSTFIX, unicode, full)}{_op(T.REVERSE, unicode)}", \
-            _PREC_POSTFIX
-    if isinstance(node, Power):
-        base = _wrap(node.base, _PREC_ATOM, unicode, False)
+
+    def visit_Negate(self, node):
+        return f"{self.op(T.MINUS)}{self.wrap(node.operand, _PREC_NEGATE)}", _PREC_NEGATE
+
+    def visit_Reverse(self, node):
+        return f"{self.wrap(node.operand, _PREC_POSTFIX)}{self.op(T.REVERSE)}", _PREC_POSTFIX
+
+    def visit_Power(self, node):
+        base = self.wrap(node.base, _PREC_ATOM, full=False)
         exponent = node.exponent
         if isinstance(exponent, Number) and exponent.value.denominator == 1:
             return f"{base}^{exponent.text}", _PREC_POSTFIX
         if (isinstance(exponent, Negate) and isinstance(exponent.operand, Number)
                 and exponent.operand.value.denominator == 1):
             return f"{base}^-{exponent.operand.text}", _PREC_POSTFIX
-        return f"{base}^({unparse(exponent, unicode, full)})", _PREC_POSTFIX
-    if isinstance(node, GradePart):
-        left, right = _op(T.LANGLE, unicode), _op(T.RANGLE, unicode)
+        return f"{base}^({self.text(exponent)})", _PREC_POSTFIX
+
+    def visit_GradePart(self, node):
+        left, right = self.op(T.LANGLE), self.op(T.RANGLE)
         grade = "" if node.grade is None else str(node.grade)
-        return f"{left}{unparse(node.operand, unicode, full)}{right}{grade}", _PREC_ATOM
-    if isinstance(node, Call):
-        args = ", ".join(unparse(arg, unicode, full) for arg in node.args)
+        return f"{left}{self.text(node.operand)}{right}{grade}", _PREC_ATOM
+
+    def visit_Call(self, node):
+        args = ", ".join(self.text(arg) for arg in node.args)
         space = " " if node.spaced else ""
-        return f"{_greek(node.name, unicode)}{space}({args})", _PREC_ATOM
-    raise TypeError(f"not an expression node: {node!r}")
+        return f"{_greek(node.name, self.unicode)}{space}({args})", _PREC_ATOM
+
+
+_PRODUCT_OPS = {"*": " * ", "/": " / ", "": " "}

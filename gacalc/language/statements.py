@@ -1,0 +1,320 @@
+"""The statement executors of a Session: one ``_do_NAME`` method per statement node of
+gacalc.language.syntax (``use`` and ``save`` are in gacalc.language.files).
+
+Each executor gets the statement, the scratch State it may change (committed by the
+session when the statement succeeds), the list to append results to and the run
+context (gacalc.language.files.RunContext).
+"""
+
+from __future__ import annotations
+
+from gacalc.values import describe, kind_of
+
+from . import limits
+from . import syntax as S
+from . import tokens as T
+from .builtins import BUILTINS
+from .errors import GacalcError, GacalcMathError, GacalcNameError, GacalcTypeError
+from .evaluator import Condition, Evaluator, State, UserFunction, is_multivector, relevant_conditions
+from .help import help_text
+from .results import (CheckResult, DeclarationResult, EmitResult, HelpResult, NoteResult,
+                      ShowResult, ValueResult)
+
+MIN_SIMPLIFY_BUDGET = 0.05        # below this a simplification is not worth starting
+
+
+class StatementExecutors:
+    """Mixed into Session; uses its options (unicode, width, budget, emit_dir) and clock."""
+
+    def _result(self, cls, statement, **fields):
+        return cls(span=statement.span, silent=statement.silent, unicode=self.unicode,
+                   width=self.width, **fields)
+
+    def _note(self, statement, message):
+        return NoteResult(message=message, span=statement.span, unicode=self.unicode,
+                          width=self.width)
+
+    def _flush_notes(self, evaluator: Evaluator, results: list, statement):
+        for text, span in evaluator.notes:
+            results.append(NoteResult(message=text, span=span or statement.span,
+                                      unicode=self.unicode, width=self.width))
+        evaluator.notes.clear()
+
+    def _log(self, state: State, statement: S.Statement):
+        text = statement.span.text.strip()
+        state.log.append(text if text.endswith(";") else text + ";")
+
+    def _evaluate(self, node, state: State, results: list, statement, extra=None):
+        evaluator = Evaluator(state, extra, self._clock)
+        try:
+            value = evaluator.evaluate(node)
+        finally:
+            self._flush_notes(evaluator, results, statement)
+        return value
+
+    def _simplified(self, value, state: State, extra: list | None = None):
+        """(value, complete, conditions used) through gacalc.simplify."""
+        kind = kind_of(value)
+        conditions = relevant_conditions(state.conditions() + list(extra or ()), value)
+        value, complete = kind.simplify(value, [c.expr for c in conditions],
+                                        self._simplify_budget())
+        return value, complete, conditions
+
+    def _simplify_budget(self):
+        """The simplifier's budget: its own, but never past the statement's deadline
+        (simplify arms its own SIGALRM alarm; the statement's deadline uses another
+        signal, see gacalc.language.watchdog)."""
+        return self._clock.within(float(self.budget), MIN_SIMPLIFY_BUDGET)
+
+    def _do_ExpressionStatement(self, statement, state, results, context):
+        value = self._evaluate(statement.expr, state, results, statement)
+        value, complete, _ = self._simplified(value, state)
+        state.ans = value
+        self._log(state, statement)
+        if not complete:
+            results.append(self._note(statement, "simplification ran out of time: the value "
+                                      "is correct but not fully simplified"))
+        results.append(self._result(ValueResult, statement, value=value, complete=complete))
+
+    def _do_Assign(self, statement, state, results, context):
+        value = self._evaluate(statement.expr, state, results, statement)
+        value, complete, _ = self._simplified(value, state)
+        name = statement.name
+        state.functions.pop(name, None)
+        state.declarations.pop(name, None)
+        state.unit_names.discard(name)
+        state.values[name] = value
+        state.ans = value
+        self._log(state, statement)
+        if not complete:
+            results.append(self._note(statement, "simplification ran out of time: the value "
+                                      "is correct but not fully simplified"))
+        results.append(self._result(ValueResult, statement, value=value, name=name,
+                                    complete=complete))
+
+    def _do_FunctionDef(self, statement, state, results, context):
+        name = statement.name
+        params = [param.name for param in statement.params]
+        for call in S.walk(statement.body):
+            if isinstance(call, S.Call) and call.name == name and call.name not in params:
+                raise GacalcTypeError(f"{name} calls itself: without conditionals the "
+                                      "recursion would never end", call.name_span)
+        state.values.pop(name, None)
+        state.declarations.pop(name, None)
+        state.unit_names.discard(name)
+        state.functions[name] = UserFunction(name, params, statement.body,
+                                             " ".join(statement.span.text.split()))
+        self._log(state, statement)
+        if not statement.silent:
+            results.append(self._note(statement, f"defined {name}({', '.join(params)})"))
+
+    def _do_Declare(self, statement, state, results, context):
+        from gacalc.algebra import symbolic
+
+        kind = statement.kind
+        if statement.unit and kind not in ("vector", "bivector", "rotor"):
+            raise GacalcTypeError(f"'unit' applies to vectors, bivectors and rotors, not to a "
+                                  f"{kind}", statement.span)
+        created, all_conditions = {}, []
+        for param in statement.names:
+            name = param.name
+            value, exprs = symbolic(kind, name, unit=statement.unit)
+            components = sorted(str(s) for s in value.free_symbols) if kind != "scalar" else []
+            for component in components:
+                clash = _reserved_kind(component)
+                if clash:
+                    raise GacalcNameError(f"{kind} {name} would have a component {component}, "
+                                          f"which is {clash}; choose another name", param.span)
+            text = _unit_text(kind, name) if exprs else None
+            conditions = [Condition(expr, text, "declaration") for expr in exprs]
+            state.values[name] = value
+            state.functions.pop(name, None)
+            state.declarations[name] = kind
+            if statement.unit or exprs:
+                state.unit_names.add(name)
+            else:
+                state.unit_names.discard(name)
+            state.facts[name] = conditions
+            state.known_symbols.update(components or [name])
+            created[name] = value
+            all_conditions.extend(conditions)
+        self._log(state, statement)
+        results.append(self._result(DeclarationResult, statement, declared_kind=kind,
+                                    values=created, conditions=all_conditions))
+
+    def _conditions(self, nodes, state, results, statement, origin) -> list[Condition]:
+        out = []
+        for node in nodes:
+            evaluator = Evaluator(state, None, self._clock)
+            try:
+                left = evaluator.evaluate(node.left)
+                right = evaluator.evaluate(node.right)
+                if not (is_multivector(left) and is_multivector(right)):
+                    raise GacalcTypeError("a condition is an equation between multivectors "
+                                          "(usually scalars)", node.span)
+                difference = left - right
+            finally:
+                self._flush_notes(evaluator, results, statement)
+            text = " ".join(node.span.text.split())
+            exprs = [expr for _, expr in difference.items()]
+            if not exprs:
+                results.append(self._note(statement, f"the condition {text} always holds"))
+                continue
+            for expr in exprs:
+                if expr.is_number:
+                    raise GacalcMathError(f"the condition {text} can never hold", node.span)
+                out.append(Condition(expr, text, origin))
+        return out
+
+    def _do_Check(self, statement, state, results, context):
+        from gacalc.simplify import is_zero
+
+        given = self._conditions(statement.given, state, results, statement, "given")
+        left = self._evaluate(statement.left, state, results, statement, given)
+        right = self._evaluate(statement.right, state, results, statement, given)
+        differences = _differences(left, right, statement)
+        conditions = relevant_conditions(state.conditions() + given, differences)
+        exprs = [c.expr for c in conditions]
+        verdicts = [is_zero(d, (), self._simplify_budget()) for d in differences]
+        used: list[Condition] = []
+        if not all(v is True for v in verdicts) and exprs:
+            verdicts = [is_zero(d, exprs, self._simplify_budget()) for d in differences]
+            used = conditions
+        if all(v is True for v in verdicts):
+            outcome = "holds"
+        elif any(v is False for v in verdicts):
+            outcome = "fails"
+        else:
+            outcome = "undecided"
+        difference, complete = None, True
+        if outcome != "holds":
+            simplified = [self._simplified(d, state, given) for d in differences]
+            complete = all(s[1] for s in simplified)
+            difference = _reassemble(left, right, [s[0] for s in simplified])
+        texts = _unique(c.text for c in used)
+        results.append(self._result(CheckResult, statement, outcome=outcome,
+                                    difference=difference, conditions=texts,
+                                    complete=complete))
+
+    def _do_Assume(self, statement, state, results, context):
+        if statement.clear:
+            state.assumptions = []
+            self._log(state, statement)
+            results.append(self._note(statement, "no assumptions are active now"))
+            return
+        if not statement.conditions:
+            active = state.conditions()
+            if not active:
+                message = "no conditions are active"
+            else:
+                message = "active conditions: " + "; ".join(_unique(c.text for c in active))
+            results.append(self._note(statement, message))
+            return
+        new = self._conditions(statement.conditions, state, results, statement, "assume")
+        state.assumptions = state.assumptions + new
+        _check_consistent(state.conditions(), new)
+        self._log(state, statement)
+        if not statement.silent:
+            results.append(self._note(statement, "assuming " + "; ".join(
+                _unique(c.text for c in new))))
+
+    def _do_Show(self, statement, state, results, context):
+        value = self._evaluate(statement.expr, state, results, statement)
+        value, _, _ = self._simplified(value, state)
+        against = None
+        if statement.against is not None:
+            against = self._evaluate(statement.against, state, results, statement)
+        from gacalc.forms import build_report
+
+        values = [v for v in (value, against) if v is not None]
+        for shown in values:       # the report multiplies the value with itself (norms...)
+            limits.check_chain([shown, shown, shown], statement.span, "the report of show")
+        conditions = [c.expr for c in relevant_conditions(state.conditions(), values)]
+        report = build_report(value, session=self, against=against, conditions=conditions,
+                              deadline=self._clock.within(None, MIN_SIMPLIFY_BUDGET),
+                              call_seconds=float(self.budget))
+        text = report.to_latex() if statement.latex else report.to_text(self.unicode)
+        results.append(self._result(ShowResult, statement, report=report, report_text=text,
+                                    latex=statement.latex))
+
+    def _do_Emit(self, statement, state, results, context):
+        value = self._evaluate(statement.expr, state, results, statement)
+        value, _, _ = self._simplified(value, state)
+        from gacalc import export
+
+        name = statement.as_name
+        if name is None and isinstance(statement.expr, S.Name):
+            name = statement.expr.name
+        declared = dict(state.declarations)
+        try:
+            code = export.emit(statement.target, kind_of(value).export(value), name=name,
+                               declared=declared, options={})
+        except export.ExportError as error:
+            raise GacalcError(f"emit {statement.target}: {error}", statement.span) from None
+        path = self._write_emitted(statement, name, code, context)
+        results.append(self._result(EmitResult, statement, target=statement.target,
+                                    code=code, path=path))
+
+    def _do_Help(self, statement, state, results, context):
+        text = help_text(statement.topic, state.functions)
+        if text is None:
+            raise GacalcNameError(f"no help on {statement.topic!r}",
+                                  statement.span, hint="help lists the topics")
+        results.append(self._result(HelpResult, statement, help=text))
+
+
+# Helpers ------------------------------------------------------------------------------
+def _reserved_kind(name: str) -> str | None:
+    import re
+
+    if re.fullmatch(r"e[0-9]+", name):
+        return "a basis blade name"
+    if name in BUILTINS:
+        return "a built-in function"
+    if name in T.KEYWORDS or name in T.CONSTANTS or name == "ans":
+        return "a reserved name"
+    return None
+
+
+def _unit_text(kind: str, name: str) -> str:
+    return {"vector": f"{name} is a unit vector", "bivector": f"{name} is a unit bivector",
+            "rotor": f"{name} is a unit rotor"}.get(kind, f"{name} has norm 1")
+
+
+def _check_consistent(active: list, new: list):
+    """Refuse new assumptions that contradict the active conditions they touch
+    (the Gröbner basis of the set is {1}); AlgebraError says why."""
+    if not new:
+        return
+    try:
+        from gacalc.simplify.conditions import ConditionSet
+    except ImportError:
+        return
+    from gacalc.algebra import Multivector
+
+    probe = Multivector.scalar(sum(condition.expr for condition in new))
+    connected = relevant_conditions(active, [probe])
+    ConditionSet.of(tuple(condition.expr for condition in connected))
+
+
+def _differences(left, right, statement) -> list:
+    """L - R as a list of multivectors, all zero when L equals R."""
+    differences = kind_of(left).differences(left, right)
+    if differences is None:
+        raise GacalcTypeError(f"cannot compare {describe(left)} with {describe(right)}",
+                              statement.span)
+    return differences
+
+
+def _reassemble(left, right, differences):
+    """The difference in the shape of the compared values."""
+    return kind_of(left).reassemble(left, differences)
+
+
+def _unique(texts) -> list:
+    seen, out = set(), []
+    for text in texts:
+        if text not in seen:
+            seen.add(text)
+            out.append(text)
+    return out
