@@ -28,30 +28,30 @@ def _home() -> Path:
     return Path(os.path.expanduser("~"))
 
 
-def data_dir() -> Path:
-    """Directory for files the user keeps (the REPL history)."""
-    explicit = _xdg("XDG_DATA_HOME")
+def _folder(xdg: str, windows: tuple[str, str], darwin: str, other: str) -> Path:
+    """The platform's folder of one sort: $XDG_..., else Windows' environment variable
+    (or its usual place), macOS' Library folder, or the XDG default under home."""
+    explicit = _xdg(xdg)
     if explicit is not None:
         return explicit / APP_NAME
     if sys.platform == "win32":
-        base = os.environ.get("APPDATA")
-        return Path(base) / APP_NAME if base else _home() / "AppData" / "Roaming" / APP_NAME
+        variable, fallback = windows
+        base = os.environ.get(variable)
+        return Path(base) / APP_NAME if base else _home() / "AppData" / fallback / APP_NAME
     if sys.platform == "darwin":
-        return _home() / "Library" / "Application Support" / APP_NAME
-    return _home() / ".local" / "share" / APP_NAME
+        return _home() / "Library" / darwin / APP_NAME
+    return _home() / other / APP_NAME
+
+
+def data_dir() -> Path:
+    """Directory for files the user keeps (the REPL history)."""
+    return _folder("XDG_DATA_HOME", ("APPDATA", "Roaming"), "Application Support",
+                   ".local/share")
 
 
 def state_dir() -> Path:
     """Directory for files gacalc writes about itself (logs of internal errors)."""
-    explicit = _xdg("XDG_STATE_HOME")
-    if explicit is not None:
-        return explicit / APP_NAME
-    if sys.platform == "win32":
-        base = os.environ.get("LOCALAPPDATA")
-        return Path(base) / APP_NAME if base else _home() / "AppData" / "Local" / APP_NAME
-    if sys.platform == "darwin":
-        return _home() / "Library" / "Logs" / APP_NAME
-    return _home() / ".local" / "state" / APP_NAME
+    return _folder("XDG_STATE_HOME", ("LOCALAPPDATA", "Local"), "Logs", ".local/state")
 
 
 def history_file() -> Path:

@@ -251,10 +251,10 @@ class ScriptRunner:
 
     def run_file(self, path: str) -> Tally:
         from gacalc.language.errors import GacalcFileError
+        from gacalc.textfiles import read_script
 
         try:
-            with open(path, encoding="utf-8") as handle:
-                text = handle.read()
+            text = read_script(path)
         except (OSError, UnicodeDecodeError) as error:
             reason = getattr(error, "strerror", None) or str(error)
             self._print_error(self.style.first_line(

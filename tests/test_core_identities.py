@@ -15,6 +15,8 @@ from hypothesis import given, settings, strategies as st
 
 from gacalc.algebra import I, Multivector, cross, e1, e2, e12, symbolic, vector
 
+from conftest import stereographic_unit
+
 SETTINGS = settings(max_examples=30, deadline=None, derandomize=True)
 theta = sp.Symbol("theta", real=True)
 alpha = sp.Symbol("alpha", real=True)
@@ -29,10 +31,8 @@ def dot(a, b):
 
 
 def unit_vector_from(u, v):
-    """A rational unit vector: inverse stereographic projection of (u, v) (common practice)."""
-    u, v = sp.Rational(u), sp.Rational(v)
-    d = u**2 + v**2 + 1
-    return vector(2 * u / d, 2 * v / d, (u**2 + v**2 - 1) / d)
+    """A rational unit vector (conftest.stereographic_unit; common practice)."""
+    return vector(*stereographic_unit(u, v))
 
 
 def make_rotor(n, angle):

@@ -12,10 +12,12 @@ import sympy
 from gacalc import values
 from gacalc.algebra import Multivector
 from gacalc.export import targets
-from gacalc.language import GacalcError, Session
+from gacalc.language import Session
 from gacalc.language.builtins import BUILTINS, builtin
 from gacalc.language.errors import GacalcLimitError, GacalcTypeError
 from gacalc.language.results import CheckResult, EmitResult, HelpResult, ValueResult
+
+from conftest import ok
 
 
 # A toy value kind: pairs of scalars with componentwise arithmetic (the direct product
@@ -98,28 +100,22 @@ def _pair_session(registered):
     return Session()
 
 
-def _ok(session, text):
-    results = session.run(text)
-    assert not any(isinstance(r, GacalcError) for r in results), results[-1]
-    return results
-
-
 def test_a_toy_value_kind_prints_adds_multiplies_and_checks(registered):
     session = _pair_session(registered)
-    shown = _ok(session, "p = pair(1, 2) + pair(3, 4); p")[-1]
+    shown = ok(session, "p = pair(1, 2) + pair(3, 4); p")[-1]
     assert isinstance(shown, ValueResult) and shown.text == "pair(4, 6)"
     # componentwise product and scaling by a scalar on either side (common practice)
-    assert _ok(session, "pair(x, 2) * pair(x, 3)")[-1].text == "pair(x^2, 6)"
-    assert _ok(session, "2 p - p 3")[-1].text == "pair(-4, -6)"
-    assert _ok(session, "-p")[-1].text == "pair(-4, -6)"
+    assert ok(session, "pair(x, 2) * pair(x, 3)")[-1].text == "pair(x^2, 6)"
+    assert ok(session, "2 p - p 3")[-1].text == "pair(-4, -6)"
+    assert ok(session, "-p")[-1].text == "pair(-4, -6)"
     # (x + 1)(x - 1) = x^2 - 1 in each component (the difference of two squares)
-    held = _ok(session, "check pair(x + 1, x) * pair(x - 1, 1) == pair(x^2 - 1, x)")[-1]
+    held = ok(session, "check pair(x + 1, x) * pair(x - 1, 1) == pair(x^2 - 1, x)")[-1]
     assert isinstance(held, CheckResult) and held.outcome == "holds"
-    failed = _ok(session, "check pair(1, 2) == pair(1, 3)")[-1]
+    failed = ok(session, "check pair(1, 2) == pair(1, 3)")[-1]
     assert failed.outcome == "fails" and failed.difference == Pair(0, -1)
     assert "pair(0, -1)" in failed.text
     # the printed text reads back as the same value
-    again = _ok(session, shown.text)[-1]
+    again = ok(session, shown.text)[-1]
     assert again.value == shown.value
 
 
@@ -136,7 +132,7 @@ def test_a_toy_value_kind_meets_other_kinds_with_clear_errors(registered):
         assert isinstance(error, GacalcTypeError), (text, error)
         assert error.message == message, text
     # a whole power is repeated multiplication: (1, 2)^3 = (1, 8)
-    assert _ok(session, "pair(1, 2)^3")[-1].text == "pair(1, 8)"
+    assert ok(session, "pair(1, 2)^3")[-1].text == "pair(1, 8)"
 
 
 def test_a_toy_builtin_is_one_registration_with_help_and_size_check(registered):
@@ -152,11 +148,11 @@ def test_a_toy_builtin_is_one_registration_with_help_and_size_check(registered):
 
     session = Session()
     # (e1 + e2)^2 = e1^2 + e2^2 = 2 (e1 e2 + e2 e1 = 0; DESIGN.md conventions)
-    assert _ok(session, "toysquare(e1 + e2)")[-1].text == "2"
-    helped = _ok(session, "help toysquare")[-1]
+    assert ok(session, "toysquare(e1 + e2)")[-1].text == "2"
+    helped = ok(session, "help toysquare")[-1]
     assert isinstance(helped, HelpResult)
     assert helped.help == "toysquare(A)  A times A\n  example: toysquare(e1 + e2)"
-    assert "toysquare" in _ok(session, "help")[-1].help
+    assert "toysquare" in ok(session, "help")[-1].help
     assert ("toysquare", "A times A") in session.completion_words()
     # its declared chain is checked before the call: a large general multivector squared
     # could exceed the term limit, and the function never runs
@@ -185,19 +181,19 @@ def test_a_toy_export_target_is_one_registration(registered, tmp_path):
 
     add_target(targets.ExportTarget("toy", ".toy", emit_toy, 'emit toy EXPR            toy text'))
     session = Session(base_dir=str(tmp_path))
-    emitted = _ok(session, "emit toy 2 e1 + e3 as v")[-1]
+    emitted = ok(session, "emit toy 2 e1 + e3 as v")[-1]
     assert isinstance(emitted, EmitResult) and emitted.code == "toy v 1:2 3:1"
-    _ok(session, 'emit toy e12 as b to "bivector.toy"')
+    ok(session, 'emit toy e12 as b to "bivector.toy"')
     assert (tmp_path / "bivector.toy").read_text() == "toy b 6:1\n"
     # with an emit folder, an emit without 'to' is written as NAME + the target's suffix
     folder = tmp_path / "out"
     folder.mkdir()
-    _ok(Session(emit_dir=str(folder)), "emit toy e2 as w")
+    ok(Session(emit_dir=str(folder)), "emit toy e2 as w")
     assert (folder / "w.toy").read_text() == "toy w 2:1\n"
-    helped = _ok(session, "help emit")[-1].help
+    helped = ok(session, "help emit")[-1].help
     assert "emit toy EXPR            toy text" in helped
     assert helped.splitlines()[0] == "emit latex EXPR          LaTeX"
-    assert "emit latex|python|numpy|c|toy EXPR" in _ok(session, "help")[-1].help
+    assert "emit latex|python|numpy|c|toy EXPR" in ok(session, "help")[-1].help
     error = session.run("emit nothing e1")[-1]
     assert error.message == ("emit needs a target: emit latex EXPR, emit python EXPR, "
                              "emit c EXPR or emit toy EXPR")

@@ -10,7 +10,6 @@ terminal is tested in tests/test_pty.py.)
 
 from __future__ import annotations
 
-import dataclasses
 import os
 import signal
 import subprocess
@@ -21,15 +20,11 @@ from pathlib import Path
 import pytest
 
 from gacalc.language import Session
-from gacalc.language import builtins
 from gacalc.language.errors import GacalcInternalError, GacalcInterrupt
 
+from conftest import patch_builtin
+
 ROOT = Path(__file__).resolve().parents[1]
-
-
-def patch_builtin(monkeypatch, name, impl):
-    monkeypatch.setitem(builtins.BUILTINS, name,
-                        dataclasses.replace(builtins.BUILTINS[name], impl=impl))
 
 
 def snapshot(session: Session):

@@ -11,12 +11,7 @@ from gacalc.language.session import (MAX_INPUT_CHARS, SAVE_HEADER, CheckResult,
                                      DeclarationResult, EmitResult, FileResult, HelpResult,
                                      NoteResult, ShowResult, ValueResult)
 
-
-def ok(session, text, filename=None):
-    results = session.run(text, filename)
-    errors = [r for r in results if isinstance(r, GacalcError)]
-    assert not errors, errors[0].caret_text()
-    return results
+from conftest import ok
 
 
 def test_results_are_structured():

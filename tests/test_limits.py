@@ -24,6 +24,8 @@ from gacalc.language.errors import GacalcError, GacalcLimitError
 from gacalc.language.parser import MAX_DEPTH, MAX_NUMBER_DIGITS, MAX_STATEMENT_CHARS
 from gacalc.language.session import DEFAULT_STATEMENT_BUDGET, MAX_INPUT_CHARS
 
+from conftest import patch_builtin
+
 
 def last(session, text):
     return session.run(text)[-1]
@@ -193,15 +195,6 @@ def _spin(*args, **kwargs):
 
 def test_default_statement_budget():
     assert Session().statement_budget == DEFAULT_STATEMENT_BUDGET == 30.0
-
-
-def patch_builtin(monkeypatch, name, impl):
-    import dataclasses
-
-    from gacalc.language import builtins
-
-    monkeypatch.setitem(builtins.BUILTINS, name,
-                        dataclasses.replace(builtins.BUILTINS[name], impl=impl))
 
 
 def test_a_statement_over_its_budget_is_abandoned(monkeypatch):

@@ -21,6 +21,8 @@ from gacalc.algebra.representations import (
     left_matrix, pauli, quaternion, right_matrix, rotation_matrix,
 )
 
+from conftest import stereographic_unit
+
 SETTINGS = settings(max_examples=25, deadline=None, derandomize=True)
 theta = sp.Symbol("theta", real=True)
 
@@ -40,10 +42,8 @@ def rational_even():
 
 
 def unit_vector_from(u, v):
-    """A rational unit vector: inverse stereographic projection of (u, v) (common practice)."""
-    u, v = sp.Rational(u), sp.Rational(v)
-    d = u**2 + v**2 + 1
-    return (2 * u / d, 2 * v / d, (u**2 + v**2 - 1) / d)
+    """A rational unit vector (conftest.stereographic_unit; common practice)."""
+    return stereographic_unit(u, v)
 
 
 def make_rotor(n, angle):

@@ -17,6 +17,8 @@ from gacalc.algebra.rotors import (
 )
 from gacalc.simplify import is_zero, simplify
 
+from conftest import same
+
 RNG = random.Random(1958)
 theta = sympy.Symbol("theta", real=True)
 
@@ -34,10 +36,6 @@ def vec(m: Multivector) -> np.ndarray:
 
 def close(a: Multivector, b: Multivector, tol=1e-10) -> bool:
     return np.allclose(num(a), num(b), atol=tol)
-
-
-def same(a: Multivector, b: Multivector) -> bool:
-    return is_zero(a - b) is True
 
 
 def random_vector() -> Multivector:

@@ -12,8 +12,10 @@ from pathlib import Path
 import pytest
 
 from gacalc.language import Session
-from gacalc.language.errors import GacalcError, GacalcFileError
+from gacalc.language.errors import GacalcFileError
 from gacalc.language.session import SAVE_HEADER
+
+from conftest import ok
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -36,13 +38,6 @@ turned = rotate(g(θ), e1)
 assume a . b = 0
 α = 3/4 e3 + cos(theta) e12
 """
-
-
-def ok(session, text, filename=None):
-    results = session.run(text, filename)
-    errors = [r for r in results if isinstance(r, GacalcError)]
-    assert not errors, errors[0].caret_text()
-    return results
 
 
 def state_of(session: Session):

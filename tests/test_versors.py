@@ -14,7 +14,8 @@ from gacalc.algebra import I, ONE, AlgebraError, Multivector, e1, e2, e3, e12, e
 from gacalc.algebra.versors import (
     apply_versor, classify_versor, is_versor, project, reflect, reject, versor_parity,
 )
-from gacalc.simplify import is_zero
+
+from conftest import same
 
 RNG = random.Random(20240611)
 
@@ -32,10 +33,6 @@ def random_rational_vector(lo=-9, hi=9) -> Multivector:
         comps = [sympy.Rational(RNG.randint(lo, hi), RNG.randint(1, 5)) for _ in range(3)]
         if any(comps):
             return vector(*comps)
-
-
-def same(a: Multivector, b: Multivector) -> bool:
-    return is_zero(a - b) is True
 
 
 # -- reflect -----------------------------------------------------------------------------

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from gacalc.textfiles import open_script
+
 DEMO_ORDER = ("periscope", "retroreflector", "gimbal", "spin")
 EXAMPLES_DIR = Path(__file__).resolve().parent
 
@@ -24,7 +26,7 @@ def demo_path(name: str) -> Path | None:
 
 def summary_of(path: Path) -> str:
     """The first comment line of a script, without the '#': what the demo shows."""
-    with open(path, encoding="utf-8") as handle:
+    with open_script(path) as handle:
         for line in handle:
             line = line.strip()
             if line.startswith("#"):

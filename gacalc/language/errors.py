@@ -78,18 +78,11 @@ class Span:
         return Span(self.source, min(self.start, other.start), max(self.end, other.end))
 
 
-class GacalcError(Exception):
-    """A user mistake (or a refusal) with its place in the source."""
+class Positioned:
+    """filename, line and column of an object's ``span`` (None without one)."""
 
-    kind = "error"
+    span: Span | None
 
-    def __init__(self, message: str, span: Span | None = None, hint: str | None = None):
-        super().__init__(message)
-        self.message = message
-        self.span = span
-        self.hint = hint
-
-    # Position -----------------------------------------------------------------
     @property
     def filename(self) -> str | None:
         return self.span.filename if self.span is not None else None
@@ -102,6 +95,19 @@ class GacalcError(Exception):
     def column(self) -> int | None:
         return self.span.column if self.span is not None else None
 
+
+class GacalcError(Positioned, Exception):
+    """A user mistake (or a refusal) with its place in the source."""
+
+    kind = "error"
+
+    def __init__(self, message: str, span: Span | None = None, hint: str | None = None):
+        super().__init__(message)
+        self.message = message
+        self.span = span
+        self.hint = hint
+
+    # Position -----------------------------------------------------------------
     def with_span(self, span: Span | None) -> "GacalcError":
         """Attach a span when the error has none yet (errors raised deep inside)."""
         if self.span is None and span is not None:

@@ -1,12 +1,12 @@
-"""Files a session reads and writes: ``use``, ``save`` and the files ``emit`` writes, and
-the one way gacalc reads a script (UTF-8; a byte-order mark is not text).
-"""
+"""Files a session reads and writes: ``use``, ``save`` and the files ``emit`` writes
+(scripts are read by gacalc.textfiles, like everywhere else)."""
 
 from __future__ import annotations
 
 import os
 
 from gacalc.export import targets as export_targets
+from gacalc.textfiles import open_script, read_script
 
 from .errors import GacalcFileError, GacalcLimitError, Source
 from .parser import iter_statements
@@ -15,17 +15,6 @@ from .watchdog import restart
 
 MAX_INPUT_CHARS = 2_000_000
 SAVE_HEADER = "# gacalc session"
-SCRIPT_ENCODING = "utf-8-sig"      # a BOM that an editor put there is not text
-
-
-def open_script(path):
-    return open(path, encoding=SCRIPT_ENCODING)
-
-
-def read_script(path) -> str:
-    """The text of a script file; raises OSError or UnicodeDecodeError."""
-    with open_script(path) as handle:
-        return handle.read()
 
 
 class RunContext:

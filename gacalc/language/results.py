@@ -10,7 +10,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-from .errors import Span
+from .errors import Positioned, Span
 
 
 def _block_text(value) -> bool:
@@ -22,7 +22,7 @@ def _block_text(value) -> bool:
 
 
 @dataclass
-class Result:
+class Result(Positioned):
     """Common part of every result: where it came from and how to show it."""
 
     kind: str = field(init=False, default="result")
@@ -30,18 +30,6 @@ class Result:
     silent: bool = field(default=False, kw_only=True)
     unicode: bool = field(default=False, kw_only=True, repr=False)
     width: int = field(default=78, kw_only=True, repr=False)
-
-    @property
-    def filename(self) -> str | None:
-        return self.span.filename if self.span is not None else None
-
-    @property
-    def line(self) -> int | None:
-        return self.span.line if self.span is not None else None
-
-    @property
-    def column(self) -> int | None:
-        return self.span.column if self.span is not None else None
 
     @property
     def statement_text(self) -> str:

@@ -23,6 +23,7 @@ import traceback
 from typing import Iterator
 
 from gacalc.algebra import AlgebraError
+from gacalc.textfiles import read_script
 
 from . import syntax as S
 from . import tokens as T
@@ -30,8 +31,7 @@ from .builtins import BUILTINS
 from .errors import (GacalcError, GacalcFileError, GacalcInternalError, GacalcInterrupt,
                      GacalcLimitError, GacalcMathError, Source, Span)
 from .evaluator import State
-from .files import MAX_INPUT_CHARS, SAVE_HEADER, FileStatements, RunContext, os_reason, \
-    read_script
+from .files import MAX_INPUT_CHARS, SAVE_HEADER, FileStatements, RunContext, os_reason
 from .help import topic_entry
 from .parser import iter_statements
 from .results import (CheckResult, DeclarationResult, EmitResult, FileResult, HelpResult,
