@@ -117,6 +117,10 @@ def test_a_toy_value_kind_prints_adds_multiplies_and_checks(registered):
     # the printed text reads back as the same value
     again = ok(session, shown.text)[-1]
     assert again.value == shown.value
+    # show reports it with its kind's text
+    report = ok(session, "show pair(1, 2)")[-1]
+    assert report.report.kind == "pair"
+    assert report.text.splitlines()[-1].split() == ["#", "pair(1,", "2)", "#", "value"]
 
 
 def test_a_toy_value_kind_meets_other_kinds_with_clear_errors(registered):

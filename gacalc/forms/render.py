@@ -16,8 +16,6 @@ import textwrap
 
 import sympy
 
-from gacalc.algebra import Multivector
-
 from .report import Report, ReportItem
 
 WIDTH = 80
@@ -57,25 +55,20 @@ def _label_column(blocks) -> int:
 
 def _value_lines(item: ReportItem, unicode: bool) -> list:
     """The value as lines of text; [] for a verdict in words (printed beside the label)."""
-    from gacalc.printing import matrix_text, multivector_text, quaternion_text, scalar_text
+    from gacalc.printing import quaternion_text, scalar_text
+    from gacalc.values import kind_of
 
     value = item.value
     if isinstance(value, str):
         return []
-    if isinstance(value, Multivector):
-        return multivector_text(value, unicode, width=WIDTH - 2).split("\n")
-    if isinstance(value, sympy.MatrixBase):
-        rows = ["# " + row for row in matrix_text(value, unicode).split("\n")]
-        if max(len(row) for row in rows) <= WIDTH:
-            return rows
-        # too wide for the screen: one entry per line
-        return [f"#   ({i + 1},{j + 1})  {scalar_text(value[i, j], unicode)}"
-                for i in range(value.rows) for j in range(value.cols)]
     if isinstance(value, tuple):
         line = "# " + quaternion_text(sympy.Quaternion(*value), unicode)
         if len(line) <= WIDTH:
             return [line]
         return [f"#   {part}  {scalar_text(c, unicode)}" for part, c in zip("wxyz", value)]
+    kind = kind_of(value)
+    if kind is not None:
+        return kind.report_lines(value, unicode, WIDTH)
     return scalar_text(value, unicode).split("\n")
 
 
@@ -131,13 +124,15 @@ def render_latex(report: Report, notes: bool = True) -> str:
 
 def _latex_value(value) -> str:
     from gacalc.export import latex_of
+    from gacalc.values import kind_of
 
     if isinstance(value, str):
         return r"\text{%s}" % _latex_text(value)
     if isinstance(value, tuple):
         return r"\left(%s\right)" % ", ".join(latex_of(c) for c in value)
-    if isinstance(value, Multivector):
-        return latex_of(value, options={"aligned": False})
+    kind = kind_of(value)
+    if kind is not None:
+        return kind.latex(value)
     return latex_of(value)
 
 

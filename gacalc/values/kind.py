@@ -90,6 +90,17 @@ class ValueKind:
         return Report(self.name, self.name, [ReportItem("value", value, section=VALUE)],
                       simplifier.complete)
 
+    def report_lines(self, value, unicode: bool, width: int) -> list:
+        """The value as lines of a show report (``# `` starts a display line that is
+        not input)."""
+        return ["# " + line for line in self.text(value, unicode, width - 2).split("\n")]
+
+    def latex(self, value) -> str:
+        """The value in a LaTeX report."""
+        from gacalc.export import latex_of
+
+        return latex_of(self.export(value))
+
     def export(self, value):
         """What gacalc.export.emit receives for this value."""
         return value

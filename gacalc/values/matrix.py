@@ -76,6 +76,17 @@ class MatrixKind(ValueKind):
                       [ReportItem("value", m, section=VALUE)], simplifier.complete)
 
 
+    def report_lines(self, value, unicode, width):
+        from gacalc.printing.text import scalar_text
+
+        rows = ["# " + row for row in self.text(value, unicode).split("\n")]
+        if max(len(row) for row in rows) <= width:
+            return rows
+        # too wide for the screen: one entry per line
+        return [f"#   ({i + 1},{j + 1})  {scalar_text(value[i, j], unicode)}"
+                for i in range(value.rows) for j in range(value.cols)]
+
+
 def _complex_mv(x):
     """A complex scalar a + b i as the central multivector a + b I (Pauli picture)."""
     from gacalc.algebra import Multivector

@@ -141,6 +141,14 @@ class MultivectorKind(ValueKind):
 
         return multivector_report(value, simplifier, against)
 
+    def report_lines(self, value, unicode, width):
+        return self.text(value, unicode, width - 2).split("\n")
+
+    def latex(self, value):
+        from gacalc.export import latex_of
+
+        return latex_of(value, options={"aligned": False})
+
     def size(self, value):
         from gacalc.language.limits import size_of
 
