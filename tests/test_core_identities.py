@@ -36,11 +36,9 @@ def unit_vector_from(u, v):
 
 
 def make_rotor(n, angle):
-    """rotor(n, angle) from the rotors module when present; else cos(a/2) - sin(a/2) n I."""
-    try:
-        from gacalc.algebra.rotors import rotor
-    except ImportError:
-        return Multivector.scalar(sp.cos(angle / 2)) - (n * I).scale(sp.sin(angle / 2))
+    """rotor(n, angle) = cos(a/2) - sin(a/2) n I (DESIGN.md)."""
+    from gacalc.algebra.rotors import rotor
+
     return rotor(n, angle)
 
 

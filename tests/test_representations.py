@@ -47,13 +47,10 @@ def unit_vector_from(u, v):
 
 
 def make_rotor(n, angle):
-    """rotor(n, angle) from the rotors module when present; else cos(a/2) - sin(a/2) n I."""
-    nv = vector(*n)
-    try:
-        from gacalc.algebra.rotors import rotor
-    except ImportError:
-        return Multivector.scalar(sp.cos(angle / 2)) - (nv * I).scale(sp.sin(angle / 2))
-    return rotor(nv, angle)
+    """rotor(n, angle) = cos(a/2) - sin(a/2) n I (DESIGN.md) about the vector n."""
+    from gacalc.algebra.rotors import rotor
+
+    return rotor(vector(*n), angle)
 
 
 def expanded_zero(matrix):

@@ -79,10 +79,8 @@ class ValueResult(Result):
         return head + body
 
     def _repr_latex_(self):
-        try:
-            from gacalc.export import latex_of
-        except ImportError:
-            return None
+        from gacalc.export import latex_of
+
         return f"$\\displaystyle {latex_of(self.value)}$"
 
 

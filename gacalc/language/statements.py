@@ -286,11 +286,8 @@ def _check_consistent(active: list, new: list):
     (the Gröbner basis of the set is {1}); AlgebraError says why."""
     if not new:
         return
-    try:
-        from gacalc.simplify.conditions import ConditionSet
-    except ImportError:
-        return
     from gacalc.algebra import Multivector
+    from gacalc.simplify.conditions import ConditionSet
 
     probe = Multivector.scalar(sum(condition.expr for condition in new))
     connected = relevant_conditions(active, [probe])
