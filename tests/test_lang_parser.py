@@ -308,3 +308,18 @@ def test_reading_echoes_the_grouping():
     assert reading("a / b c; x = a . b c") == ["(a / b) c", "x = (a . b) c"]
     assert reading("a _| b _| c", unicode=True) == ["a ⌋ (b ⌋ c)"]
     assert reading("vector a") == ["vector a"]
+
+
+# Tree walk and positions ------------------------------------------------------------------
+def test_walk_visits_every_node_of_a_wide_tree():
+    tree = read_expression("f(a + b) c /\\ d - <e1>2 " + " + ".join(f"x{i}" for i in range(500)))
+    names = {node.name for node in S.walk(tree) if isinstance(node, S.Name)}
+    assert {"a", "b", "c", "d", "e1"} | {f"x{i}" for i in range(500)} <= names
+    assert [node.name for node in S.walk(tree) if isinstance(node, S.Call)] == ["f"]
+    assert next(S.walk(tree)) is tree
+
+
+def test_a_span_names_its_place_as_file_line_column():
+    statements = parse("x = 1\n  y = e1 /\\ e2\n", "demo.gac")
+    assert statements[1].span.location == "demo.gac:2:3"
+    assert parse("e1")[0].span.location == "<input>:1:1"
