@@ -12,7 +12,9 @@ statement fails, the GacalcError itself (message, span, filename, line, column,
 A statement that fails (or is interrupted with Ctrl-C) leaves the session exactly as
 it was: each statement runs on a copy of the state, committed when it succeeds.
 
-The session knows nothing of terminals; the CLI and REPL format its results.
+The session knows nothing of terminals; the CLI and REPL format its results.  This
+module holds the state and the run loop; the executor of each statement is in
+gacalc.language.statements, those that read and write files in gacalc.language.files.
 """
 
 from __future__ import annotations
@@ -257,8 +259,7 @@ def _internal_error(error: Exception, span: Span | None) -> GacalcInternalError:
     tb_text = traceback.format_exc()
     where = statement = ""
     if span is not None:
-        where = f"{span.source.display_name}:{span.line}:{span.column}"
-        statement = span.text
+        where, statement = span.location, span.text
     path = write_internal_error(error, statement, where, tb_text)
     message = f"internal error ({summary(error)})"
     if path is not None:
