@@ -67,23 +67,21 @@ class StatementExecutors:
         return self._clock.within(float(self.budget), MIN_SIMPLIFY_BUDGET)
 
     def _do_ExpressionStatement(self, statement, state, results, context):
-        value = self._evaluate(statement.expr, state, results, statement)
-        value, complete, _ = self._simplified(value, state)
-        state.ans = value
-        self._log(state, statement)
-        if not complete:
-            results.append(self._note(statement, "simplification ran out of time: the value "
-                                      "is correct but not fully simplified"))
-        results.append(self._result(ValueResult, statement, value=value, complete=complete))
+        self._value_statement(statement, state, results, None)
 
     def _do_Assign(self, statement, state, results, context):
+        self._value_statement(statement, state, results, statement.name)
+
+    def _value_statement(self, statement, state, results, name: str | None):
+        """An expression (name None) or an assignment: the simplified value becomes ans
+        (and the name's value)."""
         value = self._evaluate(statement.expr, state, results, statement)
         value, complete, _ = self._simplified(value, state)
-        name = statement.name
-        state.functions.pop(name, None)
-        state.declarations.pop(name, None)
-        state.unit_names.discard(name)
-        state.values[name] = value
+        if name is not None:
+            state.functions.pop(name, None)
+            state.declarations.pop(name, None)
+            state.unit_names.discard(name)
+            state.values[name] = value
         state.ans = value
         self._log(state, statement)
         if not complete:
