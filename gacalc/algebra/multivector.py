@@ -10,6 +10,7 @@ from sympy.polys.polyerrors import BasePolynomialError
 
 from .basis import BASIS_GRADES, BASIS_INDICES, BASIS_NAMES, PRODUCT_TABLE, PSEUDOSCALAR, basis_of_word
 from .coefficients import Coef, DomainError, from_expr
+from .context import current
 
 
 class AlgebraError(ArithmeticError):
@@ -58,7 +59,8 @@ class Multivector:
     """An element of Cl(3,0): eight coefficients in the basis 1, e1, e2, e3, e23, e31, e12, e123.
 
     Immutable.  Zero coefficients are never stored.  ``==`` means the difference simplifies
-    to zero (through gacalc.simplify); ``identical`` is the cheap exact comparison.
+    to zero (through the installed simplifier, see gacalc.algebra.context); ``identical`` is
+    the cheap exact comparison.
     """
 
     __slots__ = ("_c", "__weakref__")
@@ -301,9 +303,7 @@ class Multivector:
         return self.scalar_product(self.rev())[0]
 
     def norm(self):
-        from gacalc.simplify import simplify_scalar
-
-        return sympy.sqrt(simplify_scalar(self.norm2()))
+        return sympy.sqrt(simplified_scalar(self.norm2()))
 
     def central_norm(self):
         """(a, b) with A Ā = a + b I: the product is central, and that is what inverts A."""
@@ -315,13 +315,12 @@ class Multivector:
 
         A^-1 = Ā (a - b I) / (a^2 + b^2), where A Ā = a + b I.
         """
-        from gacalc.simplify import decide_zero, reduce_coef
-
+        simplifier = current().simplifier
         a, b = self.central_norm()
         zero = Coef.constant(0)
-        a, b = reduce_coef(a or zero), reduce_coef(b or zero)
-        d = reduce_coef(a * a + b * b)
-        verdict = decide_zero(d)
+        a, b = simplifier.reduce(a or zero), simplifier.reduce(b or zero)
+        d = simplifier.reduce(a * a + b * b)
+        verdict = simplifier.decide_zero(d)
         if verdict is True:
             cond = _condition_text_expr(d)
             if a.is_zero() and b.is_zero():
@@ -347,12 +346,10 @@ class Multivector:
         return (self - other).is_zero()
 
     def equals(self, other, conditions=()) -> bool:
-        from gacalc.simplify import is_zero
-
         other = _coerce(other)
         if other is NotImplemented:
             return False
-        return is_zero(self - other, conditions) is True
+        return current().simplifier.is_zero(self - other, conditions) is True
 
     def __eq__(self, other):
         if _coerce(other) is NotImplemented:
@@ -403,9 +400,14 @@ class Multivector:
         return f"Multivector({self})"
 
     def _repr_latex_(self):
-        from gacalc.export import latex_of
+        # rich display in notebooks, through the printer gacalc.export installs
+        latex = current().hooks.latex
+        return None if latex is None else f"$${latex(self)}$$"
 
-        return f"$${latex_of(self)}$$"
+
+def simplified_scalar(expr, conditions=()):
+    """A sympy scalar through the installed simplifier (as gacalc.simplify.simplify_scalar)."""
+    return current().simplifier.simplify(Multivector({0: expr}), conditions)[0]
 
 
 def _rational_product(left, right, table) -> "Multivector":

@@ -23,6 +23,8 @@ import traceback
 from typing import Iterator
 
 from gacalc.algebra import AlgebraError
+from gacalc.algebra.context import AlgebraContext
+import gacalc.simplify  # noqa: F401  (installs the simplifier the algebra calls)
 
 from . import syntax as S
 from .builtins import BUILTINS, HELP_TOPICS, help_text
@@ -83,6 +85,7 @@ class Session:
         self.base_dir = base_dir
         self.emit_dir = emit_dir
         self._state = State()
+        self.algebra = AlgebraContext()   # this session's generators and caches
         self._working: State | None = None
         self._clock = StatementClock()
         self.current_span: Span | None = None   # statement being run (for interrupts)
@@ -218,7 +221,7 @@ class Session:
         self.current_span = statement.span
         results: list = []
         try:
-            with statement_budget(self._clock, self._seconds()):
+            with statement_budget(self._clock, self._seconds()), self.algebra.active():
                 self._execute(statement, scratch, results, context)
         except GacalcError as error:
             return _with_span(results, error, statement.span)
