@@ -107,6 +107,7 @@ class Coef:
 
     @staticmethod
     def constant(value) -> "Coef":
+        """A rational constant (int, Fraction, sympy Rational or flint fmpq)."""
         if isinstance(value, sympy.Rational):
             value = flint.fmpq(int(value.p), int(value.q))
         elif isinstance(value, Fraction):
@@ -171,11 +172,13 @@ class Coef:
     # -- queries -------------------------------------------------------------
 
     def is_zero(self) -> bool:
+        """Zero as a rational function of the generators (no relations applied)."""
         if self.expr is not None:
             return self.expr == 0
         return self.num.is_zero()
 
     def is_constant(self) -> bool:
+        """No generator appears (a rational, or a number in expr mode)."""
         if self.expr is not None:
             return self.expr.is_number
         return self.den is None and self.num.is_constant()
@@ -224,6 +227,7 @@ class Coef:
         return Coef._ratio(n1 * n2, (d1 if d1 is not None else one) * (d2 if d2 is not None else one))
 
     def inverse(self) -> "Coef":
+        """1/self; ZeroDivisionError for zero."""
         if self.is_zero():
             raise ZeroDivisionError("division by zero")
         if self.expr is not None:
@@ -257,6 +261,7 @@ class Coef:
         return Coef(expr=expr)
 
     def to_expr(self):
+        """The coefficient as a sympy Expr."""
         if self.expr is not None:
             return self.expr
         reg, num, den = self._own_parts()

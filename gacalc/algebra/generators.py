@@ -36,7 +36,10 @@ class GeneratorInfo:
 
 
 class GeneratorRegistry:
-    """The generators seen so far, in order of first appearance, and their flint context."""
+    """The generators seen so far, in order of first appearance, and their flint context.
+
+    Public attributes: ``ctx`` (the current flint context), ``infos`` (GeneratorInfo in
+    order; position k + 1 is infos[k]), ``placeholder`` (the name of position 0)."""
 
     def __init__(self):
         self.placeholder = f"_one{next(_SERIALS)}"
@@ -50,7 +53,7 @@ class GeneratorRegistry:
         self._display_ctx = None
 
     def _use_context(self, ctx):
-        self.ctx, self.gens = ctx, ctx.gens()
+        self.ctx, self._gens = ctx, ctx.gens()
         self._contexts.add(ctx)
         _OWNERS[ctx] = self
 
@@ -87,7 +90,7 @@ class GeneratorRegistry:
 
     def gen(self, position: int):
         """The polynomial of the generator at a flint variable position, in the current context."""
-        return self.gens[position]
+        return self._gens[position]
 
     def constant(self, value):
         """A constant polynomial in the current context."""

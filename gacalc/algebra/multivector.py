@@ -78,7 +78,8 @@ class Multivector:
         self._c = tuple(c)
 
     @classmethod
-    def _from_coefs(cls, coefs) -> "Multivector":
+    def from_coefs(cls, coefs) -> "Multivector":
+        """The multivector of eight domain coefficients (None or Coef each), zeros dropped."""
         mv = cls.__new__(cls)
         mv._c = tuple(None if (x is None or x.is_zero()) else x for x in coefs)
         return mv
@@ -136,14 +137,14 @@ class Multivector:
         other = _coerce(other)
         if other is NotImplemented:
             return other
-        return Multivector._from_coefs(
+        return Multivector.from_coefs(
             b if a is None else (a if b is None else a + b) for a, b in zip(self._c, other._c)
         )
 
     __radd__ = __add__
 
     def __neg__(self):
-        return Multivector._from_coefs(None if a is None else -a for a in self._c)
+        return Multivector.from_coefs(None if a is None else -a for a in self._c)
 
     def __pos__(self):
         return self
@@ -162,7 +163,7 @@ class Multivector:
 
     def scale(self, factor) -> "Multivector":
         f = factor if isinstance(factor, Coef) else _to_coef(factor)
-        return Multivector._from_coefs(None if a is None else a * f for a in self._c)
+        return Multivector.from_coefs(None if a is None else a * f for a in self._c)
 
     # -- products --------------------------------------------------------------------
 
@@ -186,7 +187,7 @@ class Multivector:
                     out[k] = t if sign > 0 else -t
                 else:
                     out[k] = acc + t if sign > 0 else acc - t
-        return Multivector._from_coefs(out)
+        return Multivector.from_coefs(out)
 
     def __mul__(self, other):
         if _coerce(other) is NotImplemented:
@@ -262,16 +263,16 @@ class Multivector:
     # -- grades and involutions -------------------------------------------------------
 
     def grade(self, k: int) -> "Multivector":
-        return Multivector._from_coefs(c if BASIS_GRADES[i] == k else None for i, c in enumerate(self._c))
+        return Multivector.from_coefs(c if BASIS_GRADES[i] == k else None for i, c in enumerate(self._c))
 
     def even(self):
-        return Multivector._from_coefs(c if BASIS_GRADES[i] % 2 == 0 else None for i, c in enumerate(self._c))
+        return Multivector.from_coefs(c if BASIS_GRADES[i] % 2 == 0 else None for i, c in enumerate(self._c))
 
     def odd(self):
-        return Multivector._from_coefs(c if BASIS_GRADES[i] % 2 == 1 else None for i, c in enumerate(self._c))
+        return Multivector.from_coefs(c if BASIS_GRADES[i] % 2 == 1 else None for i, c in enumerate(self._c))
 
     def _signed(self, sign_of_grade) -> "Multivector":
-        return Multivector._from_coefs(
+        return Multivector.from_coefs(
             None if c is None else (c if sign_of_grade(BASIS_GRADES[i]) > 0 else -c)
             for i, c in enumerate(self._c)
         )
@@ -328,7 +329,7 @@ class Multivector:
             else:
                 message = f"not invertible: a^2 + b^2 = 0 for A*conjugate(A) = a + b*I (a^2 + b^2 = {cond})"
             raise NotInvertibleError(message, cond)
-        numer = self.conjugate() * Multivector._from_coefs([a, None, None, None, None, None, None, -b])
+        numer = self.conjugate() * Multivector.from_coefs([a, None, None, None, None, None, None, -b])
         inv = numer.scale(d.inverse())
         condition = None if d.is_constant() else _condition_text_expr(d)
         return inv, condition
@@ -422,7 +423,7 @@ def _rational_product(left, right, table) -> "Multivector":
             if entry is not None:
                 sign, k = entry
                 out[k] = out[k] + x * y if sign > 0 else out[k] - x * y
-    return Multivector._from_coefs(Coef.constant(v) if v else None for v in out)
+    return Multivector.from_coefs(Coef.constant(v) if v else None for v in out)
 
 
 def _condition_text_expr(d: Coef):

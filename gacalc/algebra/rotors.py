@@ -89,7 +89,7 @@ def _tidy(mv: Multivector) -> Multivector:
     """Coefficients reduced modulo the generator relations (sqrt(2)^2 -> 2, sin^2 -> 1 - cos^2),
     numeric ones also rationalised: results built from radicals come back in canonical form."""
     reduce = current().simplifier.reduce
-    reduced = Multivector._from_coefs(reduce(c) if c is not None else None for c in mv.coefs())
+    reduced = Multivector.from_coefs(reduce(c) if c is not None else None for c in mv.coefs())
     if not any(_small_algebraic(e) for _, e in reduced.items()):
         return reduced
     return reduced.map_coefficients(lambda e: _simplified(e) if _small_algebraic(e) else e)

@@ -137,7 +137,7 @@ def simplify(mv: Multivector, conditions=(), budget=None) -> SimplifyResult:
             coefs = [display_coef(c, conditions, budget) for c in mv.coefs()]
     except BudgetExceeded:
         return SimplifyResult(mv, complete=False, message="simplification gave up within its time budget")
-    return SimplifyResult(Multivector._from_coefs(coefs), True, tuple(conditions or ()))
+    return SimplifyResult(Multivector.from_coefs(coefs), True, tuple(conditions or ()))
 
 
 def simplify_scalar(expr, conditions=(), budget=None):
