@@ -79,6 +79,22 @@ def test_a_name_used_elsewhere_keeps_its_text_in_a_session():
     assert results[-1].text.endswith("x^2 + 1")
 
 
+def test_a_value_carried_into_another_context_keeps_its_meaning():
+    x_real, x_positive = sp.Symbol("x", real=True), sp.Symbol("x", positive=True)
+    home, other = AlgebraContext(), AlgebraContext()
+    with home.active():
+        value = Multivector({0: x_real + 1, "e1": x_real})
+    with other.active():
+        # here the flint variable named "x" is another symbol; x_real gets a fallback name
+        from_expr(x_positive)
+        square = value * value
+    # (x + 1 + x e1)^2 = (x + 1)^2 + x^2 + 2 x (x + 1) e1, since e1 e1 = 1 (common practice);
+    # expansions by sympy
+    assert sp.expand(square[0] - ((x_real + 1) ** 2 + x_real**2)) == 0
+    assert sp.expand(square["e1"] - 2 * x_real * (x_real + 1)) == 0
+    assert square[0].free_symbols == {x_real}
+
+
 def test_fallback_generator_names_do_not_depend_on_the_hash_seed():
     code = """
         import sympy as sp
