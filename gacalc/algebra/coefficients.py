@@ -73,7 +73,7 @@ def generators_of(coef: "Coef") -> list[GeneratorInfo]:
     """The generators a coefficient actually uses."""
     if coef.expr is not None:
         return []
-    reg = coef.registry()
+    reg = coef.owner()
     used = set()
     for p in (coef.num, coef.den):
         if p is None:
@@ -157,13 +157,13 @@ class Coef:
         c = from_expr(self.to_expr())
         self.num, self.den = c.num, c.den
 
-    def registry(self) -> GeneratorRegistry:
+    def owner(self) -> GeneratorRegistry:
         """The registry the coefficient's polynomials belong to (where it reads its generators)."""
         return owner_of(self.num) or registry()
 
     def _own_parts(self):
         """(num, den) lifted within their own registry, for reading (printing, sympy)."""
-        reg = self.registry()
+        reg = self.owner()
         num = self.num = reg.lift(self.num)
         if self.den is not None:
             self.den = reg.lift(self.den)
