@@ -43,8 +43,6 @@ base-angle choice; the bases and the reduction modulo them are gacalc.simplify.g
 from __future__ import annotations
 
 from collections import OrderedDict
-from functools import reduce as _fold
-from math import gcd
 
 import flint
 import sympy
@@ -55,7 +53,7 @@ from gacalc.algebra.multivector import AlgebraError
 
 from .budget import Budget
 from .groebner import FLINT_ORDER, ORDER, Basis, groebner_flint, used_positions, var_key
-from .relations import MAX_MULTIPLE, multiple_angle, reduce_poly_relations, substitute
+from .relations import MAX_MULTIPLE, multiple_angle, rational_gcd, reduce_poly_relations, substitute
 from .witness import Witness
 
 _CACHE_SIZE = 64
@@ -94,13 +92,6 @@ def _per_part(c: Coef, fn) -> Coef:
     if d.is_zero():  # the denominator vanishes on the condition set: leave it as it was
         d = Coef(den)
     return out / d
-
-
-def _rational_gcd(qs):
-    nums = [int(q.p) for q in qs]
-    dens = [int(q.q) for q in qs]
-    lcm = _fold(lambda a, b: a * b // gcd(a, b), dens, 1)
-    return sympy.Rational(_fold(gcd, nums), lcm)
 
 
 def _families(p) -> dict:
@@ -231,7 +222,7 @@ class ConditionSet:
         for p in polys:
             for u, qs in _families(p).items():
                 fams.setdefault(u, set()).update(qs)
-        self.angles = {u: _rational_gcd(sorted(qs)) for u, qs in fams.items()}
+        self.angles = {u: rational_gcd(sorted(qs)) for u, qs in fams.items()}
         self._bases: "OrderedDict[tuple, Basis]" = OrderedDict()
         self._argument_cache: dict = {}
         self.basis = self._basis(self.angles, frozenset(), budget)
@@ -268,7 +259,7 @@ class ConditionSet:
             polys, new_fams = self._ideal_polys(angles, roots, budget)
             refined = dict(angles)
             for u, qs in new_fams.items():
-                refined[u] = _rational_gcd(sorted(qs | ({angles[u]} if u in angles else set())))
+                refined[u] = rational_gcd(sorted(qs | ({angles[u]} if u in angles else set())))
             if refined == angles or attempt == 3:
                 break  # polys are written over ``angles``
             angles = refined
@@ -318,7 +309,7 @@ class ConditionSet:
         angles = dict(self.angles)
         for u, qs in _families(p).items():
             if u in angles:
-                g = _rational_gcd(sorted(qs | {angles[u]}))
+                g = rational_gcd(sorted(qs | {angles[u]}))
                 if max(q / g for q in qs | {angles[u]}) <= MAX_MULTIPLE:
                     angles[u] = g
         roots = frozenset()

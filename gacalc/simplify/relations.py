@@ -76,7 +76,8 @@ def substitute(p, images: dict, budget=None) -> Coef:
     return _rewrite(p, positions, image, budget)
 
 
-def _rational_gcd(qs):
+def rational_gcd(qs):
+    """The largest rational g with every q an integer multiple of g."""
     nums = [int(q.p) for q in qs]
     dens = [int(q.q) for q in qs]
     lcm = _fold(lambda a, b: a * b // gcd(a, b), dens, 1)
@@ -109,7 +110,7 @@ def _to_base_angles(p, budget, companions=()):
     for u, by_q in fams.items():
         if len(by_q) == 1:
             continue
-        g = _rational_gcd(list(by_q))
+        g = rational_gcd(list(by_q))
         if max(q / g for q in by_q) > MAX_MULTIPLE:
             continue
         c, s = trig("cos", g * u), trig("sin", g * u)
