@@ -280,10 +280,10 @@ def main():
     repeats = 3 if args.quick else 5
     ks = (2, 3, 4) if args.quick else (2, 3, 4, 5)
 
-    from gacalc.algebra.coefficients import REGISTRY
+    from gacalc.algebra.coefficients import registry
 
     print(f"SYMPY_GROUND_TYPES={os.environ.get('SYMPY_GROUND_TYPES', '(unset)')} "
-          f"sympy {sp.__version__}; coefficient domain: {type(REGISTRY.ctx).__name__} "
+          f"sympy {sp.__version__}; coefficient domain: {type(registry().ctx).__name__} "
           f"(python-flint) rational functions")
     ratios = {}
     for k in ks:

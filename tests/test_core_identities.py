@@ -13,6 +13,7 @@ import pytest
 import sympy as sp
 from hypothesis import given, settings, strategies as st
 
+import gacalc.simplify  # noqa: F401  (installs the simplifier the algebra compares with)
 from gacalc.algebra import I, Multivector, cross, e1, e2, e12, symbolic, vector
 
 from conftest import stereographic_unit

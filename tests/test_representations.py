@@ -14,6 +14,7 @@ from scipy.spatial.transform import Rotation
 from sympy.algebras import Quaternion
 from sympy.physics.matrices import msigma
 
+import gacalc.simplify  # noqa: F401  (installs the simplifier the algebra compares with)
 from gacalc.algebra import AlgebraError, I, Multivector, e1, e2, e3, e12, e23, e31, symbolic, vector
 from gacalc.algebra.basis import BASIS_INDICES
 from gacalc.algebra.representations import (

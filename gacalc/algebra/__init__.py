@@ -2,6 +2,9 @@
 
 Knows nothing of the gacalc language.  Coefficients are kept in an exact polynomial
 domain (gacalc.algebra.coefficients) that callers never see: they pass and get sympy.
+Equality, inverses and the unit checks of rotors ask the simplifier installed in
+gacalc.algebra.context: import gacalc.simplify to have the standard one (the language does);
+without it zero means structurally zero.
 """
 
 from .basis import BASIS_GRADES, BASIS_NAMES

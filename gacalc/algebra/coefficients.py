@@ -12,6 +12,9 @@ Callers outside gacalc.algebra and gacalc.simplify never see this module's types
 pass and receive sympy objects.  Relations between generators (cos^2 + sin^2 = 1,
 sqrt(p)^2 = p) are *not* applied here; that is the simplifier's job (gacalc.simplify).
 
+The generators live in the registry of the current algebra context (gacalc.algebra.context),
+one per session; a coefficient is read back through the registry its polynomials belong to.
+
 Floating-point coefficients (only produced on request, by evalf) are kept as sympy Expr
 in an "expr" mode, the honest fallback for what the polynomial domain cannot hold.
 """
@@ -24,11 +27,11 @@ from fractions import Fraction
 import re
 
 import flint
-from flint.utils.flint_exceptions import DomainError as FlintDomainError
 import sympy
 from sympy.printing.str import StrPrinter
 
-_ORDER = "deglex"  # higher degree first, then generators in order of first use
+from .context import current, registry
+from .generators import GeneratorInfo, GeneratorRegistry, owner_of
 
 
 class DomainError(ValueError):
@@ -36,71 +39,16 @@ class DomainError(ValueError):
 
 
 # ---------------------------------------------------------------------------
-# Generators
+# Generators (the registry itself lives in generators.py, one per algebra context)
 
 
-class GeneratorInfo:
-    """What a generator stands for; the simplifier reads ``kind`` and the fields."""
-
-    __slots__ = ("expr", "name", "kind", "trig", "root")
-
-    def __init__(self, expr, name, kind, trig=None, root=None):
-        self.expr = expr  # the sympy Expr the generator stands for
-        self.name = name  # ASCII text, valid gacalc input; also the flint variable name
-        self.kind = kind  # 'symbol', 'cos', 'sin', 'root', 'other'
-        self.trig = trig  # (q, u) for cos(q u) / sin(q u): q > 0 rational, u the base
-        self.root = root  # (base Coef, n) for base^(1/n)
-
-
-class _Registry:
-    """The generators seen so far, in order of first appearance, and their flint context."""
-
-    def __init__(self):
-        self.infos: list[GeneratorInfo] = []
-        self.by_expr: dict = {}
-        self.names: set[str] = set()
-        self.ctx = flint.fmpq_mpoly_ctx.get(("_one",), _ORDER)
-        self.gens = self.ctx.gens()
-        self._display_key = None
-        self._display_ctx = None
-
-    def generator(self, expr, kind="other", trig=None, root=None):
-        """The flint polynomial of the generator for ``expr``, registering it if new."""
-        idx = self.by_expr.get(expr)
-        if idx is None:
-            name = _as_factor(ascii_text(expr))
-            if name in self.names or not name.isascii():
-                name = f"_g{len(self.infos)}_{abs(hash(name)) % 10**6}"
-            idx = len(self.infos)
-            info = GeneratorInfo(expr, name, kind, trig, root)
-            # '_one' keeps the context non-empty before the first generator arrives.
-            # Build the new context first so an interrupt cannot leave the registry torn.
-            ctx = flint.fmpq_mpoly_ctx.get(("_one",) + tuple(i.name for i in self.infos) + (name,), _ORDER)
-            gens = ctx.gens()
-            self.infos.append(info)
-            self.by_expr[expr] = idx
-            self.names.add(name)
-            self.ctx, self.gens = ctx, gens
-        return self.gens[idx + 1]
-
-    def info(self, position: int) -> GeneratorInfo:
-        """Info of the generator at a flint variable position (position 0 is '_one')."""
-        return self.infos[position - 1]
-
-    def lift(self, p):
-        if p.context() is self.ctx:
-            return p
-        return p.project_to_context(self.ctx)
-
-    def display(self, p):
-        """p in a context whose variables are sorted by name, so that printed term order
-        depends on the symbols alone, not on the order a process first met them."""
-        key = len(self.infos)
-        if self._display_key != key:
-            names = sorted((i.name for i in self.infos), key=_display_order)
-            self._display_ctx = flint.fmpq_mpoly_ctx.get(("_one",) + tuple(names), _ORDER)
-            self._display_key = key
-        return p.project_to_context(self._display_ctx)
+def generator(expr, kind="other", trig=None, root=None):
+    """The polynomial of the generator for a sympy Expr in the current registry, registering it if new."""
+    reg = registry()
+    pos = reg.position(expr)
+    if pos is None:
+        pos = reg.add(expr, _as_factor(ascii_text(expr)), kind, trig, root)
+    return reg.gen(pos)
 
 
 def _as_factor(text: str) -> str:
@@ -121,29 +69,20 @@ def _as_factor(text: str) -> str:
     return f"({text})"
 
 
-def _display_order(name: str):
-    """Plain symbols first, then functions and radicals; digits compare as numbers (a2 < a10)."""
-    compound = not name.replace("_", "").isalnum()
-    parts = re.split(r"(\d+)", name)
-    return (compound, [int(x) if x.isdigit() else x for x in parts])
-
-
-REGISTRY = _Registry()
-
-
 def generators_of(coef: "Coef") -> list[GeneratorInfo]:
     """The generators a coefficient actually uses."""
     if coef.expr is not None:
         return []
+    reg = coef.owner()
     used = set()
     for p in (coef.num, coef.den):
         if p is None:
             continue
-        p = REGISTRY.lift(p)
+        p = reg.lift(p)
         for pos, d in enumerate(p.degrees()):
             if d > 0:
                 used.add(pos)
-    return [REGISTRY.info(pos) for pos in sorted(used)]
+    return [reg.info(pos) for pos in sorted(used)]
 
 
 # ---------------------------------------------------------------------------
@@ -168,11 +107,12 @@ class Coef:
 
     @staticmethod
     def constant(value) -> "Coef":
+        """A rational constant (int, Fraction, sympy Rational or flint fmpq)."""
         if isinstance(value, sympy.Rational):
             value = flint.fmpq(int(value.p), int(value.q))
         elif isinstance(value, Fraction):
             value = flint.fmpq(value.numerator, value.denominator)
-        return Coef(REGISTRY.ctx.constant(value))
+        return Coef(registry().constant(value))
 
     @staticmethod
     def _ratio(num, den) -> "Coef":
@@ -193,24 +133,52 @@ class Coef:
             return Coef(num)
         return Coef(num, den)
 
-    def _parts(self):
+    def parts(self):
+        """(numerator, denominator or None) as polynomials in the current registry's context."""
         # Lift into the current context once and keep the lifted polynomials: the value is
         # unchanged, and a long-lived coefficient (a declared symbol) stops paying for it.
-        ctx = REGISTRY.ctx
+        reg = registry()
+        ctx = reg.ctx
         if self.num.context() is not ctx:
+            if not reg.owns(self.num):
+                self._adopt(reg)
+                ctx = reg.ctx  # adopting may have registered generators
             self.num = self.num.project_to_context(ctx)
         if self.den is not None and self.den.context() is not ctx:
             self.den = self.den.project_to_context(ctx)
         return self.num, self.den
 
+    def _adopt(self, reg):
+        """Rewrite a coefficient of another registry (another session's) over ``reg``, the
+        current one: variable names may mean different things there, so go through sympy."""
+        if self.den is None and self.num.is_constant():
+            self.num = reg.constant(self.constant_value())
+            return
+        c = from_expr(self.to_expr())
+        self.num, self.den = c.num, c.den
+
+    def owner(self) -> GeneratorRegistry:
+        """The registry the coefficient's polynomials belong to (where it reads its generators)."""
+        return owner_of(self.num) or registry()
+
+    def _own_parts(self):
+        """(num, den) lifted within their own registry, for reading (printing, sympy)."""
+        reg = self.owner()
+        num = self.num = reg.lift(self.num)
+        if self.den is not None:
+            self.den = reg.lift(self.den)
+        return reg, num, self.den
+
     # -- queries -------------------------------------------------------------
 
     def is_zero(self) -> bool:
+        """Zero as a rational function of the generators (no relations applied)."""
         if self.expr is not None:
             return self.expr == 0
         return self.num.is_zero()
 
     def is_constant(self) -> bool:
+        """No generator appears (a rational, or a number in expr mode)."""
         if self.expr is not None:
             return self.expr.is_number
         return self.den is None and self.num.is_constant()
@@ -228,8 +196,8 @@ class Coef:
     def __add__(self, other: "Coef") -> "Coef":
         if self.expr is not None or other.expr is not None:
             return Coef.from_expr_mode(self.to_expr() + other.to_expr())
-        n1, d1 = self._parts()
-        n2, d2 = other._parts()
+        n1, d1 = self.parts()
+        n2, d2 = other.parts()
         if d1 is None and d2 is None:
             return Coef(n1 + n2)
         if d1 is None:
@@ -251,20 +219,21 @@ class Coef:
     def __mul__(self, other: "Coef") -> "Coef":
         if self.expr is not None or other.expr is not None:
             return Coef.from_expr_mode(self.to_expr() * other.to_expr())
-        n1, d1 = self._parts()
-        n2, d2 = other._parts()
+        n1, d1 = self.parts()
+        n2, d2 = other.parts()
         if d1 is None and d2 is None:
             return Coef(n1 * n2)
-        one = REGISTRY.ctx.constant(1)
+        one = registry().constant(1)
         return Coef._ratio(n1 * n2, (d1 if d1 is not None else one) * (d2 if d2 is not None else one))
 
     def inverse(self) -> "Coef":
+        """1/self; ZeroDivisionError for zero."""
         if self.is_zero():
             raise ZeroDivisionError("division by zero")
         if self.expr is not None:
             return Coef.from_expr_mode(1 / self.expr)
-        n, d = self._parts()
-        return Coef._ratio(d if d is not None else REGISTRY.ctx.constant(1), n)
+        n, d = self.parts()
+        return Coef._ratio(d if d is not None else registry().constant(1), n)
 
     def __truediv__(self, other: "Coef") -> "Coef":
         return self * other.inverse()
@@ -274,7 +243,7 @@ class Coef:
             return self.inverse() ** (-n)
         if self.expr is not None:
             return Coef.from_expr_mode(self.expr**n)
-        num, den = self._parts()
+        num, den = self.parts()
         return Coef(num**n, den**n if den is not None else None)
 
     def identical(self, other: "Coef") -> bool:
@@ -292,25 +261,26 @@ class Coef:
         return Coef(expr=expr)
 
     def to_expr(self):
+        """The coefficient as a sympy Expr."""
         if self.expr is not None:
             return self.expr
-        num, den = self._parts()
-        e = poly_to_expr(num)
+        reg, num, den = self._own_parts()
+        e = poly_to_expr(num, reg)
         if den is not None:
-            e = e / poly_to_expr(den)
+            e = e / poly_to_expr(den, reg)
         return e
 
     def text(self) -> str:
         """ASCII text, valid gacalc input: '*' products, '^' powers, '/' fractions."""
         if self.expr is not None:
             return ascii_text(self.expr)
-        num, den = self._parts()
-        t = str(REGISTRY.display(num))
+        reg, num, den = self._own_parts()
+        t = str(reg.display(num))
         if den is None:
             return t
         if len(num) > 1:
             t = f"({t})"
-        d = str(REGISTRY.display(den))
+        d = str(reg.display(den))
         if len(den) > 1 or "*" in d or "^" in d:
             d = f"({d})"
         return f"{t}/{d}"
@@ -319,8 +289,11 @@ class Coef:
         return f"Coef({self.text()})"
 
 
-def poly_to_expr(p):
-    gens = [sympy.Integer(1)] + [i.expr for i in REGISTRY.infos]
+def poly_to_expr(p, reg: GeneratorRegistry | None = None):
+    """A registry polynomial as a sympy Expr (read through the registry it belongs to)."""
+    reg = reg or owner_of(p) or registry()
+    p = reg.lift(p)
+    gens = [sympy.Integer(1)] + [i.expr for i in reg.infos]
     terms = []
     for monom, c in zip(p.monoms(), p.coeffs()):
         factors = [_fmpq_to_rational(c)]
@@ -373,7 +346,7 @@ def from_expr(expr) -> Coef:
     if expr.is_Symbol:
         if expr.is_real is False:
             raise DomainError(f"{expr} is not real")
-        return Coef(REGISTRY.generator(expr, "symbol"))
+        return Coef(generator(expr, "symbol"))
     if isinstance(expr, (sympy.cos, sympy.sin)):
         return trig(type(expr).__name__, expr.args[0])
     for fn, rewrite in _TRIG_REWRITES.items():
@@ -382,12 +355,12 @@ def from_expr(expr) -> Coef:
             return from_expr(num) / from_expr(den)
     if isinstance(expr, (sympy.atan2, sympy.atan)) and not expr.free_symbols:
         # atan(z) is atan2(z, 1); sympy writes atan2(y, x) with x > 0 as atan(y/x)
-        exact = _exact_atan2(*(expr.args if isinstance(expr, sympy.atan2) else (expr.args[0], 1)))
+        exact = current().simplifier.exact_atan2(*(expr.args if isinstance(expr, sympy.atan2) else (expr.args[0], 1)))
         if exact is not None:
             return exact
     if isinstance(expr, sympy.exp):
         arg = canonical_expr(expr.args[0])
-        return Coef(REGISTRY.generator(sympy.exp(arg), "other"))
+        return Coef(generator(sympy.exp(arg), "other"))
     if isinstance(expr, sympy.Function) or expr.is_Atom:
         if getattr(expr, "is_Boolean", False) or expr.is_Relational:
             raise DomainError("a condition is not a value")
@@ -395,7 +368,7 @@ def from_expr(expr) -> Coef:
         canon = expr.func(*args) if args else expr
         if canon is not expr and canon != expr:
             return from_expr(canon)
-        return Coef(REGISTRY.generator(canon, "other"))
+        return Coef(generator(canon, "other"))
     raise DomainError(f"cannot use {type(expr).__name__} as a coefficient")
 
 
@@ -423,70 +396,17 @@ def _from_pow(expr) -> Coef:
                 return from_expr(gexpr) ** p  # sympy pulled out a factor: 8^(1/2) = 2 sqrt(2)
         else:
             if n == 2:
-                exact = _exact_square_root(bc)
+                exact = current().simplifier.exact_square_root(bc)
                 if exact is not None:
                     return exact**p
             gexpr = sympy.Pow(bc.to_expr(), sympy.Rational(1, n), evaluate=False)
-        g = Coef(REGISTRY.generator(gexpr, "root", root=(bc, n)))
+        g = Coef(generator(gexpr, "root", root=(bc, n)))
         return g**p
     # symbolic exponent: an opaque atom
     canon = sympy.Pow(canonical_expr(base), canonical_expr(e))
     if canon.is_Pow:
-        return Coef(REGISTRY.generator(canon, "other"))
+        return Coef(generator(canon, "other"))
     return from_expr(canon)
-
-
-def _exact_square_root(bc: Coef):
-    """sqrt of a perfect square q^2 (also over half angles: 1/2 - cos(u)/2 = sin(u/2)^2):
-    q itself when q is a number of known sign, else |q| (a radical of q^2).  None if
-    the base is not a perfect square."""
-    if bc.expr is not None:
-        return None
-    from gacalc.simplify.relations import over_half_angles, sine_form
-
-    half = over_half_angles(bc)
-    halves = [] if half is None else [half, sine_form(half.num) / (Coef(half.den) if half.den is not None else Coef.constant(1))]
-    for cand in [bc, *halves]:
-        if cand is None or cand.expr is not None:
-            continue
-        num, den = cand._parts()
-        try:
-            q = Coef(num.sqrt()) / (Coef(den.sqrt()) if den is not None else Coef.constant(1))
-        except FlintDomainError:
-            continue
-        q_expr = q.to_expr()
-        if not q_expr.free_symbols:
-            value = sympy.N(q_expr, 30)
-            if value.is_number and abs(value) > 1e-25:
-                return q if value > 0 else -q
-            continue
-        return Coef(REGISTRY.generator(sympy.Abs(q_expr), "root", root=(bc, 2)))
-    return None
-
-
-def _exact_atan2(y, x):
-    """atan2(k sin u, k cos u) = u for a number u in (-pi, pi) and a number k > 0, proved by
-    exact arithmetic (y cos u - x sin u = 0) plus a numeric sign with a wide margin."""
-    yc, xc = from_expr(y), from_expr(x)
-    angles = {info.trig[0] * info.trig[1] for info in generators_of(yc) + generators_of(xc)
-              if info.kind in ("cos", "sin")}
-    shifted = {u + k * sympy.pi for u in angles for k in (-2, -1, 0, 1, 2)}
-    for u in sorted(shifted, key=sympy.default_sort_key):
-        if u.free_symbols or not abs(sympy.N(u, 30)) < sympy.pi.evalf(30) - sympy.Float(1e-20):
-            continue
-        c, sn = trig("cos", u), trig("sin", u)
-        if not _vanishes(yc * c - xc * sn):
-            continue
-        k = sympy.N((xc * c + yc * sn).to_expr(), 30)
-        if k.is_number and k > 1e-20:
-            return from_expr(u)
-    return None
-
-
-def _vanishes(c: Coef) -> bool:
-    from gacalc.simplify import decide_zero
-
-    return decide_zero(c) is True
 
 
 def trig(kind: str, arg) -> Coef:
@@ -519,7 +439,7 @@ def trig(kind: str, arg) -> Coef:
     if not isinstance(value, fn):  # sympy knew a value (cos(pi/3) = 1/2, ...)
         c = from_expr(value)
     else:
-        c = Coef(REGISTRY.generator(value, kind, trig=(sympy.Rational(q), u)))
+        c = Coef(generator(value, kind, trig=(sympy.Rational(q), u)))
     return c if sign > 0 else -c
 
 

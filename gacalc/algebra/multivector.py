@@ -10,6 +10,7 @@ from sympy.polys.polyerrors import BasePolynomialError
 
 from .basis import BASIS_GRADES, BASIS_INDICES, BASIS_NAMES, PRODUCT_TABLE, PSEUDOSCALAR, basis_of_word
 from .coefficients import Coef, DomainError, from_expr
+from .context import current
 
 
 class AlgebraError(ArithmeticError):
@@ -58,7 +59,8 @@ class Multivector:
     """An element of Cl(3,0): eight coefficients in the basis 1, e1, e2, e3, e23, e31, e12, e123.
 
     Immutable.  Zero coefficients are never stored.  ``==`` means the difference simplifies
-    to zero (through gacalc.simplify); ``identical`` is the cheap exact comparison.
+    to zero (through the installed simplifier, see gacalc.algebra.context); ``identical`` is
+    the cheap exact comparison.
     """
 
     __slots__ = ("_c", "__weakref__")
@@ -76,7 +78,8 @@ class Multivector:
         self._c = tuple(c)
 
     @classmethod
-    def _from_coefs(cls, coefs) -> "Multivector":
+    def from_coefs(cls, coefs) -> "Multivector":
+        """The multivector of eight domain coefficients (None or Coef each), zeros dropped."""
         mv = cls.__new__(cls)
         mv._c = tuple(None if (x is None or x.is_zero()) else x for x in coefs)
         return mv
@@ -134,14 +137,14 @@ class Multivector:
         other = _coerce(other)
         if other is NotImplemented:
             return other
-        return Multivector._from_coefs(
+        return Multivector.from_coefs(
             b if a is None else (a if b is None else a + b) for a, b in zip(self._c, other._c)
         )
 
     __radd__ = __add__
 
     def __neg__(self):
-        return Multivector._from_coefs(None if a is None else -a for a in self._c)
+        return Multivector.from_coefs(None if a is None else -a for a in self._c)
 
     def __pos__(self):
         return self
@@ -160,7 +163,7 @@ class Multivector:
 
     def scale(self, factor) -> "Multivector":
         f = factor if isinstance(factor, Coef) else _to_coef(factor)
-        return Multivector._from_coefs(None if a is None else a * f for a in self._c)
+        return Multivector.from_coefs(None if a is None else a * f for a in self._c)
 
     # -- products --------------------------------------------------------------------
 
@@ -184,7 +187,7 @@ class Multivector:
                     out[k] = t if sign > 0 else -t
                 else:
                     out[k] = acc + t if sign > 0 else acc - t
-        return Multivector._from_coefs(out)
+        return Multivector.from_coefs(out)
 
     def __mul__(self, other):
         if _coerce(other) is NotImplemented:
@@ -260,16 +263,16 @@ class Multivector:
     # -- grades and involutions -------------------------------------------------------
 
     def grade(self, k: int) -> "Multivector":
-        return Multivector._from_coefs(c if BASIS_GRADES[i] == k else None for i, c in enumerate(self._c))
+        return Multivector.from_coefs(c if BASIS_GRADES[i] == k else None for i, c in enumerate(self._c))
 
     def even(self):
-        return Multivector._from_coefs(c if BASIS_GRADES[i] % 2 == 0 else None for i, c in enumerate(self._c))
+        return Multivector.from_coefs(c if BASIS_GRADES[i] % 2 == 0 else None for i, c in enumerate(self._c))
 
     def odd(self):
-        return Multivector._from_coefs(c if BASIS_GRADES[i] % 2 == 1 else None for i, c in enumerate(self._c))
+        return Multivector.from_coefs(c if BASIS_GRADES[i] % 2 == 1 else None for i, c in enumerate(self._c))
 
     def _signed(self, sign_of_grade) -> "Multivector":
-        return Multivector._from_coefs(
+        return Multivector.from_coefs(
             None if c is None else (c if sign_of_grade(BASIS_GRADES[i]) > 0 else -c)
             for i, c in enumerate(self._c)
         )
@@ -301,9 +304,7 @@ class Multivector:
         return self.scalar_product(self.rev())[0]
 
     def norm(self):
-        from gacalc.simplify import simplify_scalar
-
-        return sympy.sqrt(simplify_scalar(self.norm2()))
+        return sympy.sqrt(simplified_scalar(self.norm2()))
 
     def central_norm(self):
         """(a, b) with A Ā = a + b I: the product is central, and that is what inverts A."""
@@ -315,13 +316,12 @@ class Multivector:
 
         A^-1 = Ā (a - b I) / (a^2 + b^2), where A Ā = a + b I.
         """
-        from gacalc.simplify import decide_zero, reduce_coef
-
+        simplifier = current().simplifier
         a, b = self.central_norm()
         zero = Coef.constant(0)
-        a, b = reduce_coef(a or zero), reduce_coef(b or zero)
-        d = reduce_coef(a * a + b * b)
-        verdict = decide_zero(d)
+        a, b = simplifier.reduce(a or zero), simplifier.reduce(b or zero)
+        d = simplifier.reduce(a * a + b * b)
+        verdict = simplifier.decide_zero(d)
         if verdict is True:
             cond = _condition_text_expr(d)
             if a.is_zero() and b.is_zero():
@@ -329,7 +329,7 @@ class Multivector:
             else:
                 message = f"not invertible: a^2 + b^2 = 0 for A*conjugate(A) = a + b*I (a^2 + b^2 = {cond})"
             raise NotInvertibleError(message, cond)
-        numer = self.conjugate() * Multivector._from_coefs([a, None, None, None, None, None, None, -b])
+        numer = self.conjugate() * Multivector.from_coefs([a, None, None, None, None, None, None, -b])
         inv = numer.scale(d.inverse())
         condition = None if d.is_constant() else _condition_text_expr(d)
         return inv, condition
@@ -347,12 +347,10 @@ class Multivector:
         return (self - other).is_zero()
 
     def equals(self, other, conditions=()) -> bool:
-        from gacalc.simplify import is_zero
-
         other = _coerce(other)
         if other is NotImplemented:
             return False
-        return is_zero(self - other, conditions) is True
+        return current().simplifier.is_zero(self - other, conditions) is True
 
     def __eq__(self, other):
         if _coerce(other) is NotImplemented:
@@ -403,9 +401,14 @@ class Multivector:
         return f"Multivector({self})"
 
     def _repr_latex_(self):
-        from gacalc.export import latex_of
+        # rich display in notebooks, through the printer gacalc.export installs
+        latex = current().hooks.latex
+        return None if latex is None else f"$${latex(self)}$$"
 
-        return f"$${latex_of(self)}$$"
+
+def simplified_scalar(expr, conditions=()):
+    """A sympy scalar through the installed simplifier (as gacalc.simplify.simplify_scalar)."""
+    return current().simplifier.simplify(Multivector({0: expr}), conditions)[0]
 
 
 def _rational_product(left, right, table) -> "Multivector":
@@ -420,7 +423,7 @@ def _rational_product(left, right, table) -> "Multivector":
             if entry is not None:
                 sign, k = entry
                 out[k] = out[k] + x * y if sign > 0 else out[k] - x * y
-    return Multivector._from_coefs(Coef.constant(v) if v else None for v in out)
+    return Multivector.from_coefs(Coef.constant(v) if v else None for v in out)
 
 
 def _condition_text_expr(d: Coef):

@@ -20,7 +20,8 @@ import sympy
 from sympy.algebras import Quaternion
 
 from .basis import BASIS_NAMES
-from .multivector import as_multivector as _as_multivector, AlgebraError, Multivector
+from .context import current
+from .multivector import as_multivector as _as_multivector, AlgebraError, Multivector, simplified_scalar
 
 _HALF = sympy.Rational(1, 2)
 _FLOAT_TOLERANCE = 1e-9  # for checking that a floating-point matrix is a rotation
@@ -68,15 +69,11 @@ def _is_exactly_zero_odd(a: Multivector) -> bool:
     odd = a.odd()
     if odd.is_zero():
         return True
-    from gacalc.simplify import is_zero
-
-    return is_zero(odd) is True
+    return current().simplifier.is_zero(odd) is True
 
 
 def _simplified(mv: Multivector, conditions=()) -> Multivector:
-    from gacalc.simplify import simplify
-
-    return simplify(mv, conditions).value if conditions else simplify(mv).value
+    return current().simplifier.simplify(mv, conditions)
 
 
 # ---------------------------------------------------------------------------
@@ -157,9 +154,7 @@ def _check_unit_rotor(r: Multivector):
         if abs(float(n2) - 1) > _FLOAT_TOLERANCE:
             raise AlgebraError(f"matrix needs a unit rotor; this one has norm2 = {float(n2):g}")
         return
-    from gacalc.simplify import is_zero
-
-    if is_zero(Multivector({0: n2 - 1})) is False:
+    if current().simplifier.is_zero(Multivector({0: n2 - 1})) is False:
         raise AlgebraError(f"matrix needs a unit rotor; this one has norm2 = {n2}")
 
 
@@ -314,9 +309,7 @@ def from_rotation_matrix(m, conditions=()) -> Multivector:
 
 
 def _reduced(expr, conditions):
-    from gacalc.simplify import simplify_scalar
-
-    return simplify_scalar(expr, conditions) if conditions else simplify_scalar(expr)
+    return simplified_scalar(expr, conditions)
 
 
 def _symbolic_root(square, conditions):

@@ -29,7 +29,8 @@ from fractions import Fraction
 
 import sympy
 
-from .multivector import as_multivector as _as_multivector, ONE, AlgebraError, I, Multivector, e12
+from .context import current
+from .multivector import as_multivector as _as_multivector, ONE, AlgebraError, I, Multivector, e12, simplified_scalar
 from .versors import EVEN, _grade_words, classify_versor
 
 FLOAT_TOLERANCE = 1e-9
@@ -68,9 +69,7 @@ def _text(expr) -> str:
 
 def _simplified(expr):
     """A scalar in canonical form; numeric radicals rationalised and denested where possible."""
-    from gacalc.simplify import simplify_scalar
-
-    out = simplify_scalar(expr)
+    out = simplified_scalar(expr)
     if _small_algebraic(out):
         out = sympy.sqrtdenest(sympy.radsimp(out))
     return out
@@ -89,9 +88,8 @@ def _small_algebraic(expr) -> bool:
 def _tidy(mv: Multivector) -> Multivector:
     """Coefficients reduced modulo the generator relations (sqrt(2)^2 -> 2, sin^2 -> 1 - cos^2),
     numeric ones also rationalised: results built from radicals come back in canonical form."""
-    from gacalc.simplify import reduce_coef
-
-    reduced = Multivector._from_coefs(reduce_coef(c) if c is not None else None for c in mv.coefs())
+    reduce = current().simplifier.reduce
+    reduced = Multivector.from_coefs(reduce(c) if c is not None else None for c in mv.coefs())
     if not any(_small_algebraic(e) for _, e in reduced.items()):
         return reduced
     return reduced.map_coefficients(lambda e: _simplified(e) if _small_algebraic(e) else e)
@@ -114,8 +112,7 @@ def _even_root(w):
 
 def _vanishes(expr, conditions=()):
     """True / False / None for 'this scalar is zero' (given the conditions)."""
-    from gacalc.simplify import is_zero
-
+    is_zero = current().simplifier.is_zero
     mv = Multivector({0: expr})
     verdict = is_zero(mv)
     if verdict is True:

@@ -20,7 +20,9 @@ from fractions import Fraction
 
 import sympy
 
-from .multivector import as_multivector as _as_multivector, AlgebraError, Multivector, NotInvertibleError
+from .context import current
+from .multivector import (as_multivector as _as_multivector, AlgebraError, Multivector, NotInvertibleError,
+                          simplified_scalar)
 
 EVEN, ODD = "even", "odd"
 
@@ -38,9 +40,7 @@ def _vanishes(mv: Multivector):
     """True / False / None: does the multivector simplify to zero?"""
     if mv.is_zero():
         return True
-    from gacalc.simplify import is_zero
-
-    return is_zero(mv)
+    return current().simplifier.is_zero(mv)
 
 
 def classify_versor(V) -> str | None:
@@ -98,9 +98,7 @@ def versor_parity(V, what: str = "apply_versor") -> str:
 
 def versor_inverse(V, what: str = "apply_versor", noun: str = "versor") -> Multivector:
     """V⁻¹ = Ṽ / (V Ṽ) for a versor (or blade) V of Cl(3,0): V Ṽ is the scalar |V|²."""
-    from gacalc.simplify import simplify_scalar
-
-    n2 = simplify_scalar(V.norm2())
+    n2 = simplified_scalar(V.norm2())
     if n2 == 0:
         raise NotInvertibleError(f"{what} needs a nonzero {noun}; this one simplifies to 0", n2)
     rev = V.rev()

@@ -16,6 +16,8 @@ arguments in name order. A declared rotor is taken as unit (R R~ = 1), an 'even'
 
 import sympy
 
+from gacalc.algebra.context import install_latex
+
 from . import c as _c
 from . import latex as _latex
 from .common import DEFAULT_NAME, ExportError, read_options, read_value
@@ -48,6 +50,10 @@ def emit(target_name, value, *, name=None, declared=None, options=None):
 def latex_of(value, options=None):
     """A single LaTeX fragment (math-mode body, no delimiters), e.g. for _repr_latex_."""
     return _latex.render(read_value(value), options=read_options(options))
+
+
+# Notebooks show multivectors through this printer (Multivector._repr_latex_ asks the hook).
+install_latex(latex_of)
 
 
 def operation_counts(value, declared=None):

@@ -25,6 +25,8 @@ import traceback
 from typing import Iterator
 
 from gacalc.algebra import AlgebraError
+from gacalc.algebra.context import AlgebraContext
+import gacalc.simplify  # noqa: F401  (installs the simplifier the algebra calls)
 from gacalc.textfiles import read_script
 
 from . import syntax as S
@@ -76,6 +78,7 @@ class Session(StatementExecutors, FileStatements):
         self.base_dir = base_dir
         self.emit_dir = emit_dir
         self._state = State()
+        self.algebra = AlgebraContext()   # this session's generators and caches
         self._working: State | None = None
         self._clock = StatementClock()
         self.current_span: Span | None = None   # statement being run (for interrupts)
@@ -210,7 +213,7 @@ class Session(StatementExecutors, FileStatements):
         self.current_span = statement.span
         results: list = []
         try:
-            with statement_budget(self._clock, self._seconds()):
+            with statement_budget(self._clock, self._seconds()), self.algebra.active():
                 self._execute(statement, scratch, results, context)
         except GacalcError as error:
             return _with_span(results, error, statement.span)

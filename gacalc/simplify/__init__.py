@@ -19,10 +19,12 @@ from dataclasses import dataclass, field
 
 import sympy
 
-from gacalc.algebra.coefficients import REGISTRY, Coef, from_expr
+from gacalc.algebra.coefficients import Coef, from_expr
+from gacalc.algebra.context import Simplifier, install_simplifier
 from gacalc.algebra.multivector import Multivector
 
 from .budget import Budget, BudgetExceeded, time_limit
+from .exact_values import _exact_atan2, _exact_square_root
 from .relations import has_opaque_generators, reduce_poly_relations, shortest_display
 
 DEFAULT_BUDGET = 10.0  # seconds per simplification call
@@ -48,7 +50,7 @@ def reduce_coef(coef: Coef, conditions=None, budget: Budget | None = None) -> Co
     """Canonical form of a coefficient modulo the generator relations (and conditions)."""
     if coef is None or coef.expr is not None:
         return coef
-    num, den = coef._parts()
+    num, den = coef.parts()
     reducer = _conditions_reducer(conditions)
     parts = []
     for p, other in ((num, den), (den, num)):
@@ -65,7 +67,7 @@ def display_coef(coef: Coef, conditions=None, budget: Budget | None = None) -> C
     c = reduce_coef(coef, conditions, budget)
     if c is None or c.expr is not None:
         return c
-    num, den = c._parts()
+    num, den = c.parts()
     num = shortest_display(num, budget)
     if den is not None:
         return num / shortest_display(den, budget)
@@ -135,7 +137,7 @@ def simplify(mv: Multivector, conditions=(), budget=None) -> SimplifyResult:
             coefs = [display_coef(c, conditions, budget) for c in mv.coefs()]
     except BudgetExceeded:
         return SimplifyResult(mv, complete=False, message="simplification gave up within its time budget")
-    return SimplifyResult(Multivector._from_coefs(coefs), True, tuple(conditions or ()))
+    return SimplifyResult(Multivector.from_coefs(coefs), True, tuple(conditions or ()))
 
 
 def simplify_scalar(expr, conditions=(), budget=None):
@@ -150,7 +152,33 @@ def _as_budget(budget):
     return Budget(DEFAULT_BUDGET if budget is None else float(budget))
 
 
+class StandardSimplifier(Simplifier):
+    """This package's policy behind the hooks of gacalc.algebra.context."""
+
+    def reduce(self, coef):
+        return reduce_coef(coef)
+
+    def decide_zero(self, coef):
+        return decide_zero(coef)
+
+    def is_zero(self, mv, conditions=()):
+        return is_zero(mv, conditions)
+
+    def simplify(self, mv, conditions=()):
+        return simplify(mv, conditions).value
+
+    def exact_square_root(self, base):
+        return _exact_square_root(base)
+
+    def exact_atan2(self, y, x):
+        return _exact_atan2(y, x)
+
+
+# Importing the simplifier installs it: every algebra context without hooks of its own uses it.
+install_simplifier(StandardSimplifier())
+
+
 __all__ = [
     "SimplifyResult", "simplify", "is_zero", "simplify_scalar", "reduce_coef", "display_coef",
-    "decide_zero", "Budget", "BudgetExceeded", "DEFAULT_BUDGET", "REGISTRY", "from_expr",
+    "decide_zero", "Budget", "BudgetExceeded", "DEFAULT_BUDGET", "StandardSimplifier", "from_expr",
 ]

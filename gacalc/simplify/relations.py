@@ -14,7 +14,7 @@ from math import gcd
 
 import sympy
 
-from gacalc.algebra.coefficients import REGISTRY, Coef, trig
+from gacalc.algebra.coefficients import Coef, registry, trig
 
 MAX_MULTIPLE = 64  # cos(m x) with larger m is left alone rather than expanded
 MAX_PASSES = 12
@@ -30,7 +30,7 @@ def _families(p):
     for pos in _used_positions(p):
         if pos == 0:
             continue
-        info = REGISTRY.info(pos)
+        info = registry().info(pos)
         if info.kind in ("cos", "sin"):
             q, u = info.trig
             fams.setdefault(u, {}).setdefault(q, {})[info.kind] = pos
@@ -62,7 +62,7 @@ def _rewrite(p, positions, image, budget=None) -> Coef:
 
 def substitute(p, images: dict, budget=None) -> Coef:
     """p with the generator at each flint position replaced by a Coef: {position: image}."""
-    p = REGISTRY.lift(p)
+    p = registry().lift(p)
     positions = list(images)
     values = [images[pos] for pos in positions]
 
@@ -76,14 +76,15 @@ def substitute(p, images: dict, budget=None) -> Coef:
     return _rewrite(p, positions, image, budget)
 
 
-def _rational_gcd(qs):
+def rational_gcd(qs):
+    """The largest rational g with every q an integer multiple of g."""
     nums = [int(q.p) for q in qs]
     dens = [int(q.q) for q in qs]
     lcm = _fold(lambda a, b: a * b // gcd(a, b), dens, 1)
     return sympy.Rational(_fold(gcd, nums), lcm)
 
 
-def _multiple_angle(c: Coef, s: Coef, m: int):
+def multiple_angle(c: Coef, s: Coef, m: int):
     """(cos(m x), sin(m x)) from c = cos x, s = sin x by the Chebyshev recurrences."""
     cos_prev, cos_cur = Coef.constant(1), c
     sin_prev, sin_cur = Coef.constant(0), s
@@ -101,7 +102,7 @@ def _to_base_angles(p, budget, companions=()):
     so that numerator and denominator share a base angle and can cancel."""
     fams = _families(p)
     for other in companions:
-        for u, by_q in _families(REGISTRY.lift(other)).items():
+        for u, by_q in _families(registry().lift(other)).items():
             if u in fams:
                 for q, kinds in by_q.items():
                     fams[u].setdefault(q, {})
@@ -109,7 +110,7 @@ def _to_base_angles(p, budget, companions=()):
     for u, by_q in fams.items():
         if len(by_q) == 1:
             continue
-        g = _rational_gcd(list(by_q))
+        g = rational_gcd(list(by_q))
         if max(q / g for q in by_q) > MAX_MULTIPLE:
             continue
         c, s = trig("cos", g * u), trig("sin", g * u)
@@ -117,12 +118,12 @@ def _to_base_angles(p, budget, companions=()):
             m = int(q / g)
             if m == 1:
                 continue
-            cm, sm = _multiple_angle(c, s, m)
+            cm, sm = multiple_angle(c, s, m)
             for kind, pos in kinds.items():
-                substitutions[REGISTRY.info(pos).expr] = cm if kind == "cos" else sm
+                substitutions[registry().info(pos).expr] = cm if kind == "cos" else sm
     if not substitutions:
         return Coef(p)
-    return substitute(p, {REGISTRY.by_expr[e] + 1: img for e, img in substitutions.items()}, budget)
+    return substitute(p, {registry().position(e): img for e, img in substitutions.items()}, budget)
 
 
 def _power_rules(p):
@@ -131,7 +132,7 @@ def _power_rules(p):
     for pos in _used_positions(p):
         if pos == 0:
             continue
-        info = REGISTRY.info(pos)
+        info = registry().info(pos)
         if info.kind == "sin":
             cos_coef = trig("cos", info.trig[0] * info.trig[1])
             rules[info.expr] = (2, Coef.constant(1) - cos_coef * cos_coef)
@@ -144,15 +145,15 @@ def _power_rules(p):
 def _reduce_powers(p, budget) -> Coef:
     current = Coef(p)
     for _ in range(MAX_PASSES):
-        num = REGISTRY.lift(current.num)
+        num = registry().lift(current.num)
         rules = _power_rules(num)
         if not rules:
             break
-        positions = [REGISTRY.by_expr[e] + 1 for e in rules]
+        positions = [registry().position(e) for e in rules]
         degs = num.degrees()
         if all(degs[pos] < rules[e][0] for pos, e in zip(positions, rules)):
             break
-        gens = REGISTRY.gens
+        gen = registry().gen
         plist = [(pos, rules[e]) for pos, e in zip(positions, rules)]
 
         def image(key):
@@ -161,30 +162,30 @@ def _reduce_powers(p, budget) -> Coef:
                 if e:
                     q, r = divmod(e, n)
                     if r:
-                        out = out * Coef(gens[pos] ** r)
+                        out = out * Coef(gen(pos) ** r)
                     if q:
                         out = out * repl**q
             return out
 
         reduced = _rewrite(num, positions, image, budget)
         if current.den is not None:
-            reduced = reduced / Coef(REGISTRY.lift(current.den))
+            reduced = reduced / Coef(registry().lift(current.den))
         current = reduced
         if current.den is not None:
             # a radical with a rational base can bring a denominator; reduce the numerator
-            return _reduce_powers(REGISTRY.lift(current.num), budget) / Coef(REGISTRY.lift(current.den))
+            return _reduce_powers(registry().lift(current.num), budget) / Coef(registry().lift(current.den))
     return current
 
 
 def reduce_poly_relations(p, budget=None, companions=()) -> Coef:
     """Canonical form of a polynomial modulo the generator relations."""
-    p = REGISTRY.lift(p)
+    p = registry().lift(p)
     if p.is_constant():
         return Coef(p)
     c = _to_base_angles(p, budget, companions)
-    out = _reduce_powers(REGISTRY.lift(c.num), budget)
+    out = _reduce_powers(registry().lift(c.num), budget)
     if c.den is not None:
-        out = out / Coef(REGISTRY.lift(c.den))
+        out = out / Coef(registry().lift(c.den))
     return out
 
 
@@ -197,10 +198,10 @@ def merge_half_angles(p, budget=None):
     half angle (q with an even denominator: the rotor sandwich's theta/2), or when the
     result is strictly shorter.  ``merged`` tells whether a half angle was merged away.
     """
-    current = Coef(REGISTRY.lift(p))
+    current = Coef(registry().lift(p))
     merged_half = False
     for _ in range(MAX_PASSES):
-        num = REGISTRY.lift(current.num)
+        num = registry().lift(current.num)
         fams = _families(num)
         changed = False
         for u, by_q in fams.items():
@@ -210,31 +211,31 @@ def merge_half_angles(p, budget=None):
             c_pos = kinds.get("cos")
             s_pos = kinds.get("sin")
             C, S = trig("cos", 2 * q * u), trig("sin", 2 * q * u)
-            num = REGISTRY.lift(num)
-            gens = REGISTRY.gens
+            num = registry().lift(num)
+            gen = registry().gen
             positions = [pos for pos in (c_pos, s_pos) if pos is not None]
             half = (Coef.constant(1) + C) * Coef.constant(sympy.Rational(1, 2))
 
-            def image(key, c_pos=c_pos, s_pos=s_pos, half=half, S=S, gens=gens):
+            def image(key, c_pos=c_pos, s_pos=s_pos, half=half, S=S, gen=gen):
                 exps = dict(zip([x for x in (c_pos, s_pos) if x is not None], key))
                 a, b = exps.get(c_pos, 0), exps.get(s_pos, 0)
                 out = Coef.constant(1)
                 if b >= 2:  # not reduced; leave this group alone
-                    out = out * Coef(gens[s_pos] ** b)
+                    out = out * Coef(gen(s_pos) ** b)
                     b = 0
                 if b == 1 and a >= 1:
                     out = out * S * Coef.constant(sympy.Rational(1, 2))
                     a -= 1
                 elif b == 1:
-                    out = out * Coef(gens[s_pos])
+                    out = out * Coef(gen(s_pos))
                 if a % 2:
-                    out = out * Coef(gens[c_pos])
+                    out = out * Coef(gen(c_pos))
                 if a // 2:
                     out = out * half ** (a // 2)
                 return out
 
             candidate = _rewrite(num, positions, image, budget)
-            cand_num = REGISTRY.lift(candidate.num)
+            cand_num = registry().lift(candidate.num)
             gone = not any(cand_num.degrees()[pos] > 0 for pos in positions)
             is_half = q.q % 2 == 0
             if len(cand_num) < len(num) or (gone and is_half):
@@ -269,24 +270,24 @@ def has_opaque_generators(c: Coef) -> bool:
 
 def sine_form(p, budget=None) -> Coef:
     """The reduced form written the other way round: cos^2 -> 1 - sin^2 in every family."""
-    current = Coef(REGISTRY.lift(p))
-    num = REGISTRY.lift(current.num)
+    current = Coef(registry().lift(p))
+    num = registry().lift(current.num)
     for u, by_q in _families(num).items():
         for q, kinds in by_q.items():
             c_pos = kinds.get("cos")
             if c_pos is None or num.degrees()[c_pos] < 2:
                 continue
             s = trig("sin", q * u)
-            num = REGISTRY.lift(num)
-            gens = REGISTRY.gens
+            num = registry().lift(num)
+            gen = registry().gen
             one_minus_s2 = Coef.constant(1) - s * s
 
-            def image(key, c_pos=c_pos, gens=gens, one_minus_s2=one_minus_s2):
+            def image(key, c_pos=c_pos, gen=gen, one_minus_s2=one_minus_s2):
                 (a,) = key
                 out = one_minus_s2 ** (a // 2)
-                return out * Coef(gens[c_pos]) if a % 2 else out
+                return out * Coef(gen(c_pos)) if a % 2 else out
 
-            num = REGISTRY.lift(_rewrite(num, [c_pos], image, budget).num)
+            num = registry().lift(_rewrite(num, [c_pos], image, budget).num)
     return Coef(num)
 
 
@@ -294,10 +295,10 @@ def shortest_display(p, budget=None) -> Coef:
     """Half angles merged into full ones (the rotor sandwich's form); otherwise the shorter
     of the cosine form and the sine form, ties going to the cosine form."""
     merged, merged_half = merge_half_angles(p, budget)
-    if merged_half or not _families(REGISTRY.lift(p)):
+    if merged_half or not _families(registry().lift(p)):
         return merged
     alt = sine_form(merged.num, budget)
-    return alt if len(REGISTRY.lift(alt.num)) < len(REGISTRY.lift(merged.num)) else merged
+    return alt if len(registry().lift(alt.num)) < len(registry().lift(merged.num)) else merged
 
 
 def over_half_angles(c: Coef):
@@ -306,7 +307,7 @@ def over_half_angles(c: Coef):
     see that 1/2 - cos(u)/2 is the square sin(u/2)^2."""
     if c.expr is not None:
         return None
-    num, den = c._parts()
+    num, den = c.parts()
     companions = []
     for p in (num, den):
         if p is None:
