@@ -158,3 +158,28 @@ def test_round_trip_of_session_results():
             text = result.render(unicode)
             back = [r for r in session.run(text) if isinstance(r, ValueResult)][-1]
             assert back.value == result.value, text
+
+
+def test_generator_names_and_scalar_text_share_one_spelling():
+    # One printer: the coefficient domain's generator names and the printing layer's scalar
+    # text follow the same rules (only the term order of sums may differ).  The expected
+    # spellings are the language's own (DESIGN.md: ^ for powers, sqrt, ln, abs, exp(1)).
+    import sympy
+
+    from gacalc.algebra.coefficients import ascii_text
+    from gacalc.printing.text import scalar_text
+
+    x, t = sympy.symbols("x t", real=True)
+    cases = {
+        x ** sympy.Rational(-1, 2): "1/(sqrt(x))",
+        2 ** t: "2^t",
+        x ** sympy.Rational(2, 3): "x^(2/3)",
+        sympy.log(x): "ln(x)",
+        sympy.Abs(x): "abs(x)",
+        sympy.E: "exp(1)",
+        sympy.Float("0.5", 15): "0.5",
+        sympy.cos(t / 2): "cos(t/2)",
+    }
+    for expr, text in cases.items():
+        assert ascii_text(expr) == text
+        assert scalar_text(expr) == text

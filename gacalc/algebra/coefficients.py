@@ -21,17 +21,16 @@ in an "expr" mode, the honest fallback for what the polynomial domain cannot hol
 
 from __future__ import annotations
 
-from decimal import Decimal
 from fractions import Fraction
 
 import re
 
 import flint
 import sympy
-from sympy.printing.str import StrPrinter
 
 from .context import current, registry
 from .generators import GeneratorInfo, GeneratorRegistry, owner_of
+from .spelling import input_text
 
 
 class DomainError(ValueError):
@@ -443,46 +442,6 @@ def trig(kind: str, arg) -> Coef:
     return c if sign > 0 else -c
 
 
-# ---------------------------------------------------------------------------
-# ASCII text of sympy expressions (generator names and expr-mode coefficients)
-
-
-class _AsciiPrinter(StrPrinter):
-    """sympy's StrPrinter with gacalc's power operator and function names."""
-
-    _renames = {"Abs": "abs", "atan2": "atan2", "exp": "exp", "log": "ln"}
-
-    def _print_Pow(self, expr, rational=False):
-        base, e = expr.args
-        if e == sympy.Rational(1, 2):
-            return f"sqrt({self._print(base)})"
-        if e == -1:
-            return f"1/{self.parenthesize(base, 60)}"
-        if e.is_Rational and e.q != 1:
-            return f"{self.parenthesize(base, 60)}^({self._print(e)})"
-        if e.is_Number and e.is_negative:
-            return f"1/{self.parenthesize(base, 60)}^{self._print(-e)}"
-        if e.is_Atom and not e.is_negative:
-            return f"{self.parenthesize(base, 60)}^{self._print(e)}"
-        return f"{self.parenthesize(base, 60)}^({self._print(e)})"
-
-    def _print_Function(self, expr):
-        name = self._renames.get(expr.func.__name__, expr.func.__name__)
-        return f"{name}({', '.join(self._print(a) for a in expr.args)})"
-
-    def _print_Exp1(self, expr):
-        return "exp(1)"
-
-    def _print_Float(self, expr):
-        # positional notation (the language has no exponent syntax), every digit kept
-        s = super()._print_Float(expr)
-        if "e" not in s.lower():
-            return s
-        return format(Decimal(s), "f")
-
-
-_PRINTER = _AsciiPrinter({"order": "none"})
-
-
 def ascii_text(expr) -> str:
-    return _PRINTER.doprint(expr)
+    """Input text of a sympy expression in sympy's argument order (generator names)."""
+    return input_text(expr, order="none")

@@ -31,6 +31,7 @@ from __future__ import annotations
 import re
 
 from gacalc.algebra.basis import BASIS_GRADES, BASIS_NAMES
+from gacalc.algebra.spelling import input_text
 from gacalc.language.tokens import greek
 
 DEFAULT_WIDTH = 78
@@ -174,62 +175,8 @@ def multivector_text(mv, unicode: bool = False, width: int = DEFAULT_WIDTH,
 # Scalars, matrices, quaternions -------------------------------------------------------
 def scalar_text(expr, unicode: bool = False) -> str:
     """A sympy scalar expression as gacalc text (ASCII operators: * ^ /)."""
-    text = _ScalarPrinter.text(expr)
+    text = input_text(expr)
     return unicode_text(text) if unicode else text
-
-
-class _ScalarPrinter:
-    _printer = None
-
-    @classmethod
-    def text(cls, expr) -> str:
-        if cls._printer is None:
-            cls._printer = _make_printer()
-        return cls._printer.doprint(expr)
-
-
-def _make_printer():
-    import sympy
-    from sympy.printing.str import StrPrinter
-
-    class Printer(StrPrinter):
-        """sympy's printer with gacalc's ^, function names, and exp(1) for e."""
-
-        renames = {"Abs": "abs", "log": "ln"}
-
-        def _print_Pow(self, expr, rational=False):
-            base, exponent = expr.args
-            if exponent == sympy.Rational(1, 2):
-                return f"sqrt({self._print(base)})"
-            if exponent.is_Number and exponent.is_negative:
-                positive = -exponent
-                denominator = self._print(sympy.Pow(base, positive, evaluate=False)) \
-                    if positive != 1 else self.parenthesize(base, 60)
-                if positive != 1 and not positive.is_Integer:
-                    denominator = f"({denominator})"
-                return f"1/{denominator}"
-            if exponent.is_Integer:
-                return f"{self.parenthesize(base, 60)}^{self._print(exponent)}"
-            return f"{self.parenthesize(base, 60)}^({self._print(exponent)})"
-
-        def _print_Function(self, expr):
-            name = self.renames.get(expr.func.__name__, expr.func.__name__)
-            return f"{name}({', '.join(self._print(arg) for arg in expr.args)})"
-
-        def _print_Exp1(self, expr):
-            return "exp(1)"
-
-        def _print_ImaginaryUnit(self, expr):
-            return "I"   # in the Pauli picture e123 plays the role of i
-
-        def _print_Float(self, expr):
-            import mpmath
-
-            digits = max(1, int(expr._prec * 0.30103))
-            return mpmath.nstr(expr._to_mpmath(expr._prec), digits, min_fixed=-30,
-                               max_fixed=30, strip_zeros=True)
-
-    return Printer()
 
 
 def matrix_text(matrix, unicode: bool = False) -> str:
