@@ -193,10 +193,24 @@ def _check_rotation(m: sympy.Matrix):
         if worst > _FLOAT_TOLERANCE:
             raise AlgebraError("from_matrix needs a rotation matrix (orthogonal, determinant 1)")
         return
-    if any(sympy.simplify(v) != 0 for v in list(gram)):
+    # refused only when an entry of M^T M - 1 (or det M - 1) is proved nonzero: decided in
+    # the simplifier's canonical form, else by a certified numeric sign (sympy.simplify
+    # alone misses sin(1)^4-style identities and refused true rotations)
+    if any(_proved_nonzero(v) for v in list(gram)):
         raise AlgebraError("from_matrix needs a rotation matrix; this one is not orthogonal")
-    if sympy.simplify(det) != 0:
+    if _proved_nonzero(det):
         raise AlgebraError("from_matrix needs a rotation, not a reflection (determinant is -1)")
+
+
+def _proved_nonzero(x) -> bool:
+    """x (a number) is proved nonzero: by the simplifier's decision or a certified sign."""
+    from gacalc.simplify import is_zero
+    from gacalc.simplify.signs import certified_sign
+
+    verdict = is_zero(Multivector({0: x}))
+    if verdict is not None:
+        return verdict is False
+    return certified_sign(x) is not None
 
 
 def _over_common_angle(m, halve: bool):
@@ -307,7 +321,9 @@ def from_rotation_matrix(m, conditions=()) -> Multivector:
         if root is None:
             root = sympy.sqrtdenest(sympy.sqrt(squares[pivot]))
         comps = [_through_one_angle(sympy.radsimp(c)) for c in _shepperd(m, pivot, root * _HALF)]
-    if bool(comps[0] < 0):
+    from gacalc.simplify.signs import certified_sign
+
+    if certified_sign(comps[0]) == -1:
         comps = [-c for c in comps]
     rotor = from_quaternion(comps)
     return _simplified(rotor) if m.has(sympy.cos, sympy.sin) else rotor

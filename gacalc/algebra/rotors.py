@@ -342,7 +342,12 @@ def slerp(R1, R2, t, conditions=()) -> Multivector:
     t = _scalar_arg(t, "slerp", "parameter")
     D = R1.rev() * R2
     d0 = _simplified(D[0])
-    negative = bool(d0 < 0) if not d0.free_symbols else d0.is_negative
+    if d0.free_symbols:
+        negative = d0.is_negative
+    else:
+        from gacalc.simplify.signs import certified_sign
+
+        negative = certified_sign(d0) == -1  # a proved sign; an undecided one keeps R2
     if negative is True:
         D = -D
     return _tidy(R1 * _power(D, t, conditions))

@@ -400,6 +400,15 @@ def _subs(ctx, a, t, value):
          "numeric(rotor(e12, 1))", "symbols")
 def _numeric(ctx, a, digits=None):
     places = 15 if digits is None else ctx.integer(1, 1, 1000)
+    from .evaluator import is_matrix, is_quaternion
+
+    sympy = _sympy()
+    if is_matrix(a):  # matrix(R), pauli(A): every entry (complex ones too)
+        return a.applyfunc(lambda e: sympy.N(e, places))
+    if is_quaternion(a):
+        from sympy.algebras.quaternion import Quaternion
+
+        return Quaternion(*(sympy.N(c, places) for c in (a.a, a.b, a.c, a.d)))
     value = ctx.multivector(0)
     return value.evalf(places)
 

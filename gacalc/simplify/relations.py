@@ -234,6 +234,10 @@ def merge_half_angles(p, budget=None):
                 return out
 
             candidate = _rewrite(num, positions, image, budget)
+            if candidate.den is not None:
+                # the full angle had a closed form with a denominator (sympy writes
+                # cos(atan(x)) as 1/sqrt(1 + x^2)); keeping only the numerator would be wrong
+                continue
             cand_num = REGISTRY.lift(candidate.num)
             gone = not any(cand_num.degrees()[pos] > 0 for pos in positions)
             is_half = q.q % 2 == 0
@@ -286,7 +290,10 @@ def sine_form(p, budget=None) -> Coef:
                 out = one_minus_s2 ** (a // 2)
                 return out * Coef(gens[c_pos]) if a % 2 else out
 
-            num = REGISTRY.lift(_rewrite(num, [c_pos], image, budget).num)
+            rewritten = _rewrite(num, [c_pos], image, budget)
+            if rewritten.den is not None:
+                continue  # sin(q u) has a closed form with a denominator: keep the cosine
+            num = REGISTRY.lift(rewritten.num)
     return Coef(num)
 
 
