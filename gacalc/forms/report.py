@@ -195,7 +195,7 @@ def build_report(value, session=None, against=None, conditions=()) -> Report:
         complex_entries = any(x.has(sympy.I) for x in value)
         m = s.matrix(value, complex_entries)
         return Report(f"{m.shape[0]}x{m.shape[1]} matrix", "matrix",
-                      [ReportItem("value", m, section=VALUE)], s.complete)
+                      [ReportItem("value", m, section=VALUE)] + _numeric_items(m), s.complete)
     if isinstance(value, Quaternion):
         q = tuple(s.scalar(c) for c in (value.a, value.b, value.c, value.d))
         return Report("quaternion", "quaternion",
@@ -203,6 +203,7 @@ def build_report(value, session=None, against=None, conditions=()) -> Report:
     x = _as_multivector(value)
     builder = _Builder(s.mv(x), s)
     report = builder.build()
+    report.items[1:1] = _numeric_items(builder.x)
     if against is not None:
         report.items.extend(_against_items(builder.x, _as_multivector(against), s))
         report.title += " against a " + _grade_name(_as_multivector(against))
@@ -212,6 +213,18 @@ def build_report(value, session=None, against=None, conditions=()) -> Report:
             "simplification", "incomplete",
             "some values ran out of the time budget: correct, but not in simplest form", VALUE))
     return report
+
+
+def _numeric_items(value) -> list:
+    """A 'numeric value' item when the exact value is too long to read (none otherwise)."""
+    from gacalc.printing.text import LONG_EXACT_CHARS, NOTE_DIGITS, numeric_value, value_text
+
+    if len(value_text(value)) <= LONG_EXACT_CHARS:
+        return []
+    approx = numeric_value(value)
+    if approx is None:
+        return []
+    return [ReportItem("numeric value", approx, f"{NOTE_DIGITS} digits", VALUE)]
 
 
 def _as_multivector(value) -> Multivector:

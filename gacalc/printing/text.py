@@ -296,3 +296,50 @@ def describe_value(value) -> str:
     if hasattr(value, "rows") and hasattr(value, "cols"):
         return f"a {value.rows}x{value.cols} matrix"
     return "a quaternion"
+
+
+# A long exact value gets its numeric value beside it ------------------------------------
+LONG_EXACT_CHARS = 300  # exact text longer than this is hard to read: add a number
+NOTE_DIGITS = 10
+
+
+def numeric_value(value, digits: int = NOTE_DIGITS):
+    """The floating-point approximation of an exact value without symbols, or None (it has
+    symbols, is already numeric, or cannot be evaluated)."""
+    import sympy
+
+    try:
+        if hasattr(value, "coefficient_texts"):
+            if value.free_symbols or any(e.has(sympy.Float) for _, e in value.items()):
+                return None
+            return value.evalf(digits)
+        if hasattr(value, "rows") and hasattr(value, "cols"):
+            if value.free_symbols or value.has(sympy.Float):
+                return None
+            return value.applyfunc(lambda e: sympy.N(e, digits))
+        if all(hasattr(value, part) for part in ("a", "b", "c", "d")):
+            parts = (value.a, value.b, value.c, value.d)
+            if any(p.free_symbols or p.has(sympy.Float) for p in parts):
+                return None
+            return type(value)(*(sympy.N(p, digits) for p in parts))
+    except (TypeError, ValueError, ArithmeticError, RecursionError):
+        return None
+    return None
+
+
+def numeric_note(value, exact_text: str, unicode: bool = False) -> str | None:
+    """One line with the numeric value of a long exact value ('  ≈ 0.8775825619 - ...'),
+    None when the exact text is short enough to read (ordinary output is unchanged)."""
+    if len(exact_text) <= LONG_EXACT_CHARS:
+        return None
+    approx = numeric_value(value)
+    if approx is None:
+        return None
+    if hasattr(approx, "rows") and hasattr(approx, "cols"):
+        rows = ("[" + ", ".join(scalar_text(e, unicode) for e in approx.row(i)) + "]"
+                for i in range(approx.rows))
+        text = " ".join(rows)
+    else:
+        text = " ".join(value_text(approx, unicode, width=10**6).split())
+    mark = "≈" if unicode else "~="
+    return f"  {mark} {text}   (numeric value of the exact result above)"
