@@ -127,3 +127,50 @@ def test_numeric_of_representations():
     P = np.array(session.get("P").tolist(), dtype=complex)
     # Pauli: e12 -> sigma_x sigma_y = i sigma_z, so cos(1/2) - e12 sin(1/2) -> diag(e^{-i/2}, e^{i/2})
     assert np.abs(P - np.diag([np.exp(-0.5j), np.exp(0.5j)])).max() < 1e-14
+
+
+# long exact values come with their numeric value ----------------------------------------------
+def _note_numbers(line):
+    import re
+
+    return [float(x) for x in re.findall(r"-?\d+\.\d+", line.replace(" - ", " -"))]
+
+
+def test_long_exact_value_gets_a_numeric_note():
+    session = Session()
+    results = _run(session, "slerp(rotor(e23, 1), rotor(e12, 3), 1/2)")
+    lines = results[-1].text.splitlines()
+    note = lines[-1]
+    assert note.startswith("  ~= ") and len(lines[0]) > 300
+    # reference: scipy's Slerp; quaternion (w, x, y, z) -> rotor w - x e23 - y e31 - z e12
+    x, y, z, w = Slerp([0, 1], Rotation.from_rotvec([[1, 0, 0], [0, 0, 3]]))([0.5]).as_quat()[0]
+    expected = [c for c in (w, -x, -y, -z) if abs(c) > 1e-12]
+    got = _note_numbers(note)
+    sign = 1 if got[0] * expected[0] > 0 else -1  # a rotor and its negative: one rotation
+    assert np.allclose(got, [sign * c for c in expected], atol=1e-9)
+    unicode = results[-1].render(unicode=True).splitlines()[-1]
+    assert unicode.startswith("  ≈ ")
+
+
+def test_short_and_symbolic_values_get_no_note():
+    session = Session()
+    short = _run(session, "rotor(e12, 1)")[-1].text
+    assert short == "cos(1/2) - sin(1/2)*e12"  # DESIGN.md: rotor(B, t) = cos(t/2) - B sin(t/2)
+    scalar_t = _run(session, "scalar t; (1 + t)^30")[-1].text  # long, but has a symbol
+    assert len(scalar_t) > 300 and "~=" not in scalar_t
+
+
+def test_products_of_numeric_angles_display_as_sums():
+    # over the common angle 1/96 the components are polynomials of degree 53; the
+    # product-to-sum form is short.  Reference: scipy's Rotation (composition A * B applies
+    # B first, like the rotor product; exp(t e12) = rotor(e12, -2 t) turns by -2 t about e3).
+    session = Session()
+    text = _run(session, "R = exp(1/3 e12) power(rotor(2/3 e1 - 2/3 e2 + 1/3 e3, 1), -7/16)")[-1].text
+    assert len(text) < 300 and "cos(1/96)" not in text
+    n = np.array([2, -2, 1]) / 3
+    rot = Rotation.from_rotvec([0, 0, -2 / 3]) * Rotation.from_rotvec(-7 / 16 * n)
+    x, y, z, w = rot.as_quat()
+    R = _floats(session.get("R"))
+    expected = np.array([w, 0, 0, 0, -x, -y, -z, 0])
+    sign = 1 if R @ expected > 0 else -1
+    assert np.abs(R - sign * expected).max() < 1e-12
