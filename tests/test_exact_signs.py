@@ -174,3 +174,14 @@ def test_products_of_numeric_angles_display_as_sums():
     expected = np.array([w, 0, 0, 0, -x, -y, -z, 0])
     sign = 1 if R @ expected > 0 else -1
     assert np.abs(R - sign * expected).max() < 1e-12
+
+
+def test_inverse_of_a_numeric_rotor_states_no_condition():
+    # a numeric a^2 + b^2 proved nonzero needs no "valid where" note (it used to say 1 != 0)
+    session = Session()
+    results = _run(session, "S = slerp(-1/6 + 1/6 e12 + 1/2 e31 + 5/6 e23, rotor(-e2 - 3 e3, e3), 1/2);"
+                            "T = S^-1;")
+    assert not any(r.kind == "note" and "valid where" in r.text for r in results)
+    symbolic = _run(Session(), "scalar t; (t + e1)^-1;")
+    # (t + e1)(t - e1) = t^2 - 1: invertible where t^2 - 1 != 0 (common practice)
+    assert any(r.kind == "note" and "valid where" in r.text for r in symbolic)
