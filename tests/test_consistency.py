@@ -33,8 +33,8 @@ from gacalc.language import Session
 from gacalc.language.errors import GacalcError, GacalcInternalError, GacalcLimitError
 
 _HUNT = int(os.environ.get("GACALC_CONSISTENCY_CASES", "0") or 0)
-ROTOR_CASES = _HUNT or 16
-MULTIVECTOR_CASES = 25 * _HUNT if _HUNT else 2500
+ROTOR_CASES = _HUNT or 12
+MULTIVECTOR_CASES = 25 * _HUNT if _HUNT else 2000
 # rotor trees one operation deep in CI (a few seconds at most); deeper for a hunt
 ROTOR_DEPTH = int(os.environ.get("GACALC_CONSISTENCY_DEPTH", "1") or 1)
 TOL = 1e-12
