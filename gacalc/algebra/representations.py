@@ -193,16 +193,15 @@ def _check_rotation(m: sympy.Matrix):
         if worst > _FLOAT_TOLERANCE:
             raise AlgebraError("from_matrix needs a rotation matrix (orthogonal, determinant 1)")
         return
-    # refused only when an entry of M^T M - 1 (or det M - 1) is proved nonzero: decided in
+    # Refused only when an entry of M^T M - 1 (or det M - 1) is proved nonzero: decided in
     # the simplifier's canonical form, else by a certified numeric sign (sympy.simplify
-    # alone misses sin(1)^4-style identities and refused true rotations)
-    # M^T M and det M are formed in the coefficient domain (sympy's det of long trig
-    # entries took minutes)
+    # missed sin(1)^4-style identities and refused true rotations).  Both are formed in
+    # the coefficient domain (sympy's det of long trig entries took minutes).
     from gacalc.algebra.coefficients import from_expr
 
     c = [[from_expr(m[i, j]) for j in range(3)] for i in range(3)]
-    one = from_expr(sympy.Integer(1))
-    gram = [c[0][i] * c[0][j] + c[1][i] * c[1][j] + c[2][i] * c[2][j] - (one if i == j else one - one)
+    one, zero = from_expr(sympy.Integer(1)), from_expr(sympy.Integer(0))
+    gram = [c[0][i] * c[0][j] + c[1][i] * c[1][j] + c[2][i] * c[2][j] - (one if i == j else zero)
             for i in range(3) for j in range(i, 3)]
     det = (c[0][0] * (c[1][1] * c[2][2] - c[1][2] * c[2][1])
            - c[0][1] * (c[1][0] * c[2][2] - c[1][2] * c[2][0])

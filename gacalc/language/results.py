@@ -92,7 +92,6 @@ class ValueResult(Result):
         note = numeric_note(self.value, text, unicode)  # only for long exact values
         return text if note is None else f"{text}\n{note}"
 
-
     def _repr_latex_(self):
         try:
             from gacalc.export import latex_of
