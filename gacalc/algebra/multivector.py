@@ -332,6 +332,8 @@ class Multivector:
         numer = self.conjugate() * Multivector.from_coefs([a, None, None, None, None, None, None, -b])
         inv = numer.scale(d.inverse())
         condition = None if d.is_constant() else _condition_text_expr(d)
+        if condition is not None and condition.is_number and (verdict is False or condition != 0):
+            condition = None  # a number proved nonzero: no condition to state ("1 != 0")
         return inv, condition
 
     def inverse(self):

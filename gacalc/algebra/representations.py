@@ -20,8 +20,10 @@ import sympy
 from sympy.algebras import Quaternion
 
 from .basis import BASIS_NAMES
+from .coefficients import from_expr, generators_of
 from .context import current
 from .multivector import as_multivector as _as_multivector, AlgebraError, Multivector, simplified_scalar
+from .signs import certified_sign
 
 _HALF = sympy.Rational(1, 2)
 _FLOAT_TOLERANCE = 1e-9  # for checking that a floating-point matrix is a rotation
@@ -181,17 +183,60 @@ def _check_rotation(m: sympy.Matrix):
     """Refuse a numeric matrix that is not a proper rotation (symbolic ones are trusted)."""
     if m.free_symbols:
         return
-    gram = m.T * m - sympy.eye(3)
-    det = m.det() - 1
     if m.has(sympy.Float):
+        gram = m.T * m - sympy.eye(3)
+        det = m.det() - 1
         worst = max(abs(complex(sympy.N(v))) for v in list(gram) + [det])
         if worst > _FLOAT_TOLERANCE:
             raise AlgebraError("from_matrix needs a rotation matrix (orthogonal, determinant 1)")
         return
-    if any(sympy.simplify(v) != 0 for v in list(gram)):
+    # Refused only when an entry of M^T M - 1 (or det M - 1) is proved nonzero: decided in
+    # the simplifier's canonical form, else by a certified numeric sign (sympy.simplify
+    # missed sin(1)^4-style identities and refused true rotations).  Both are formed in
+    # the coefficient domain (sympy's det of long trig entries took minutes).
+    from gacalc.algebra.coefficients import from_expr
+
+    c = [[from_expr(m[i, j]) for j in range(3)] for i in range(3)]
+    one, zero = from_expr(sympy.Integer(1)), from_expr(sympy.Integer(0))
+    gram = [c[0][i] * c[0][j] + c[1][i] * c[1][j] + c[2][i] * c[2][j] - (one if i == j else zero)
+            for i in range(3) for j in range(i, 3)]
+    det = (c[0][0] * (c[1][1] * c[2][2] - c[1][2] * c[2][1])
+           - c[0][1] * (c[1][0] * c[2][2] - c[1][2] * c[2][0])
+           + c[0][2] * (c[1][0] * c[2][1] - c[1][1] * c[2][0])) - one
+    if any(_proved_nonzero(v) for v in gram):
         raise AlgebraError("from_matrix needs a rotation matrix; this one is not orthogonal")
-    if sympy.simplify(det) != 0:
+    if _proved_nonzero(det):
         raise AlgebraError("from_matrix needs a rotation, not a reflection (determinant is -1)")
+
+
+def _proved_nonzero(coef) -> bool:
+    """A numeric coefficient is proved nonzero: by the simplifier's decision or a certified
+    sign (an undecided one is not refused, like a symbolic matrix)."""
+    verdict = current().simplifier.decide_zero(coef)
+    if verdict is not None:
+        return verdict is False
+    return certified_sign(coef.to_expr()) is not None
+
+
+def _trig_rotor_of_matrix(m, pivot, root) -> Multivector:
+    """Shepperd's step in the coefficient domain (sympy's radsimp of long trig entries is
+    slow); the scalar part made >= 0 where its sign is proved."""
+    entries = {(i, j): from_expr(m[i, j]) for i in range(3) for j in range(3)}  # m[i, j] indexing
+    w, x, y, z = _shepperd(entries, pivot, from_expr(root) * from_expr(_HALF))
+    if certified_sign(w.to_expr()) == -1:
+        w, x, y, z = -w, -x, -y, -z
+    return _simplified(Multivector.from_coefs([w, None, None, None, -x, -y, -z, None]))
+
+
+def _coefficient_root(square):
+    """sqrt(square) through the coefficient domain when it is exact (a perfect square, also
+    over half angles), as a sympy Expr; None when it would need a new radical."""
+    reduced = current().simplifier.reduce(from_expr(square)).to_expr()  # canonical, not the display form
+    before = {g.expr for g in generators_of(from_expr(reduced))}
+    root = from_expr(sympy.sqrt(reduced))
+    if any(g.kind == "root" and g.expr not in before for g in generators_of(root)):
+        return None
+    return root.to_expr()
 
 
 def _over_common_angle(m, halve: bool):
@@ -249,7 +294,7 @@ def _exact_square_root(x):
 
 def _shepperd(m: sympy.Matrix, pivot: int, big):
     """(w, x, y, z) from the pivot component ``big`` (any square root of its square)."""
-    inv = 1 / (4 * big)
+    inv = (big + big + big + big) ** -1  # 1/(4 big), also for coefficient-domain values
     # 4wx, 4wy, 4wz and 4xy, 4xz, 4yz from the antisymmetric and symmetric off-diagonal parts
     w_x = m[2, 1] - m[1, 2]
     w_y = m[0, 2] - m[2, 0]
@@ -298,11 +343,16 @@ def from_rotation_matrix(m, conditions=()) -> Multivector:
         comps = _shepperd(m, pivot, sympy.sqrt(squares[pivot]) * _HALF)
     else:
         # exact: cos(1/3) entries give cos(1/6) components rather than nested radicals
-        root = _symbolic_root(squares[pivot], ()) if m.has(sympy.cos, sympy.sin) else None
+        root = None
+        if m.has(sympy.cos, sympy.sin):
+            root = _coefficient_root(squares[pivot])
+            if root is not None:
+                return _trig_rotor_of_matrix(m, pivot, root)
+            root = _symbolic_root(squares[pivot], ())
         if root is None:
             root = sympy.sqrtdenest(sympy.sqrt(squares[pivot]))
         comps = [_through_one_angle(sympy.radsimp(c)) for c in _shepperd(m, pivot, root * _HALF)]
-    if bool(comps[0] < 0):
+    if certified_sign(comps[0]) == -1:
         comps = [-c for c in comps]
     rotor = from_quaternion(comps)
     return _simplified(rotor) if m.has(sympy.cos, sympy.sin) else rotor

@@ -31,6 +31,7 @@ import sympy
 
 from .context import current
 from .multivector import as_multivector as _as_multivector, ONE, AlgebraError, I, Multivector, e12, simplified_scalar
+from .signs import certified_sign
 from .versors import EVEN, _grade_words, classify_versor
 
 FLOAT_TOLERANCE = 1e-9
@@ -339,7 +340,10 @@ def slerp(R1, R2, t, conditions=()) -> Multivector:
     t = _scalar_arg(t, "slerp", "parameter")
     D = R1.rev() * R2
     d0 = _simplified(D[0])
-    negative = bool(d0 < 0) if not d0.free_symbols else d0.is_negative
+    if d0.free_symbols:
+        negative = d0.is_negative
+    else:
+        negative = certified_sign(d0) == -1  # a proved sign; an undecided one keeps R2
     if negative is True:
         D = -D
     return _tidy(R1 * _power(D, t, conditions))

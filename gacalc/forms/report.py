@@ -207,6 +207,7 @@ def multivector_report(x: Multivector, s: _Simplifier, against=None) -> Report:
     """The report of a multivector (the value kind of multivectors asks for it)."""
     builder = _Builder(s.mv(x), s)
     report = builder.build()
+    report.items[1:1] = numeric_items(builder.x)
     if against is not None:
         report.items.extend(_against_items(builder.x, _as_multivector(against), s))
         report.title += " against a " + _grade_name(_as_multivector(against))
@@ -216,6 +217,18 @@ def multivector_report(x: Multivector, s: _Simplifier, against=None) -> Report:
             "simplification", "incomplete",
             "some values ran out of the time budget: correct, but not in simplest form", VALUE))
     return report
+
+
+def numeric_items(value) -> list:
+    """A 'numeric value' item when the exact value is too long to read (none otherwise)."""
+    from gacalc.printing.text import LONG_EXACT_CHARS, NOTE_DIGITS, numeric_value, value_text
+
+    if len(value_text(value)) <= LONG_EXACT_CHARS:
+        return []
+    approx = numeric_value(value)
+    if approx is None:
+        return []
+    return [ReportItem("numeric value", approx, f"{NOTE_DIGITS} digits", VALUE)]
 
 
 def _as_multivector(value) -> Multivector:

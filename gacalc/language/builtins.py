@@ -439,11 +439,15 @@ def _subs(ctx, a, t, value):
 @builtin("numeric(A, [digits])", "floating-point approximation of A (15 digits by default)",
          "numeric(rotor(e12, 1))", "symbols")
 def _numeric(ctx, a, digits=None):
+    # multivectors, matrix(R) and pauli(A) (every entry, complex ones too), quaternions
+    from gacalc.values import kind_of
+
     places = 15 if digits is None else ctx.integer(1, 1, 1000)
-    value = ctx.multivector(0)
-    return value.evalf(places)
-
-
+    kind = kind_of(a)
+    approx = None if kind is None else kind.numeric(a, places)
+    if approx is None:
+        ctx.multivector(0)  # says what numeric accepts
+    return approx
 
 
 @builtin("ln(x)", "natural logarithm of a scalar (log also accepts rotors)", "ln(exp(2))",

@@ -68,15 +68,19 @@ class ValueResult(Result):
         self.kind = "value"
 
     def render(self, unicode: bool = False) -> str:
-        from gacalc.printing.text import value_text
+        from gacalc.printing.text import numeric_note, value_text
 
         if self.name is None:
-            return value_text(self.value, unicode, self.width)
-        head = f"{self.name} = "
-        body = value_text(self.value, unicode, self.width, indent=len(head))
-        if "\n" in body and _block_text(self.value):
-            return f"{self.name} =\n{body}"
-        return head + body
+            text = value_text(self.value, unicode, self.width)
+        else:
+            head = f"{self.name} = "
+            body = value_text(self.value, unicode, self.width, indent=len(head))
+            if "\n" in body and _block_text(self.value):
+                text = f"{self.name} =\n{body}"
+            else:
+                text = head + body
+        note = numeric_note(self.value, text, unicode)  # only for long exact values
+        return text if note is None else f"{text}\n{note}"
 
     def _repr_latex_(self):
         from gacalc.export import latex_of

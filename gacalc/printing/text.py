@@ -226,3 +226,39 @@ def describe_value(value) -> str:
     from gacalc.values import describe
 
     return describe(value)
+
+
+# A long exact value gets its numeric value beside it ------------------------------------
+LONG_EXACT_CHARS = 300  # exact text longer than this is hard to read: add a number
+NOTE_DIGITS = 10
+
+
+def numeric_value(value, digits: int = NOTE_DIGITS):
+    """The floating-point approximation of an exact value without symbols, or None (it has
+    symbols, is already numeric, or cannot be evaluated)."""
+    import sympy
+
+    from gacalc.values import kind_of
+
+    kind = kind_of(value)
+    if kind is None:
+        return None
+    if any(e.free_symbols or e.has(sympy.Float) for e in kind.scalars(value)):
+        return None
+    try:
+        return kind.numeric(value, digits)
+    except (TypeError, ValueError, ArithmeticError, RecursionError):
+        return None
+
+
+def numeric_note(value, exact_text: str, unicode: bool = False) -> str | None:
+    """One line with the numeric value of a long exact value ('  ≈ 0.8775825619 - ...'),
+    None when the exact text is short enough to read (ordinary output is unchanged)."""
+    if len(exact_text) <= LONG_EXACT_CHARS:
+        return None
+    approx = numeric_value(value)
+    if approx is None:
+        return None
+    text = value_text(approx, unicode, width=10**6).replace("\n", " ")  # matrix rows
+    mark = "≈" if unicode else "~="
+    return f"  {mark} {text}   (numeric value of the exact result above)"

@@ -100,10 +100,11 @@ def _decide_opaque(c: Coef, budget):
     expr = Coef(c.num).to_expr()
     free = sorted(expr.free_symbols, key=str)
     values = {s: sympy.Rational(7 + 3 * i, 11 + 2 * i) for i, s in enumerate(free)}
+    from gacalc.algebra.signs import certified_sign
+
     try:
-        v = sympy.N(expr.subs(values), 30)
-        if v.is_number and abs(v) > 1e-20:
-            return False  # a point where it does not vanish disproves the identity
+        if certified_sign(expr.subs(values)) is not None:
+            return False  # a point where it provably does not vanish disproves the identity
     except (TypeError, ValueError, ZeroDivisionError):
         pass
     try:

@@ -13,6 +13,7 @@ import sympy
 from gacalc.algebra.coefficients import Coef, from_expr, generator, generators_of, trig
 
 from .relations import over_half_angles, sine_form
+from gacalc.algebra.signs import certified_sign
 
 
 def _exact_square_root(bc: Coef):
@@ -33,9 +34,10 @@ def _exact_square_root(bc: Coef):
             continue
         q_expr = q.to_expr()
         if not q_expr.free_symbols:
-            value = sympy.N(q_expr, 30)
-            if value.is_number and abs(value) > 1e-25:
-                return q if value > 0 else -q
+            # sqrt(q^2) = q needs q >= 0 proved: a certified sign, never a float guess
+            sign = certified_sign(q_expr)
+            if sign is not None:
+                return q if sign > 0 else -q
             continue
         return Coef(generator(sympy.Abs(q_expr), "root", root=(bc, 2)))
     return None
@@ -43,19 +45,19 @@ def _exact_square_root(bc: Coef):
 
 def _exact_atan2(y, x):
     """atan2(k sin u, k cos u) = u for a number u in (-pi, pi) and a number k > 0, proved by
-    exact arithmetic (y cos u - x sin u = 0) plus a numeric sign with a wide margin."""
+    exact arithmetic (y cos u - x sin u = 0) plus certified signs (algebra/signs.py)."""
     yc, xc = from_expr(y), from_expr(x)
     angles = {info.trig[0] * info.trig[1] for info in generators_of(yc) + generators_of(xc)
               if info.kind in ("cos", "sin")}
     shifted = {u + k * sympy.pi for u in angles for k in (-2, -1, 0, 1, 2)}
     for u in sorted(shifted, key=sympy.default_sort_key):
-        if u.free_symbols or not abs(sympy.N(u, 30)) < sympy.pi.evalf(30) - sympy.Float(1e-20):
+        # -pi < u < pi and k > 0 must be proved (certified signs), not read off floats
+        if u.free_symbols or certified_sign(sympy.pi - sympy.Abs(u)) != 1:
             continue
         c, sn = trig("cos", u), trig("sin", u)
         if not _vanishes(yc * c - xc * sn):
             continue
-        k = sympy.N((xc * c + yc * sn).to_expr(), 30)
-        if k.is_number and k > 1e-20:
+        if certified_sign((xc * c + yc * sn).to_expr()) == 1:
             return from_expr(u)
     return None
 

@@ -235,6 +235,10 @@ def merge_half_angles(p, budget=None):
                 return out
 
             candidate = _rewrite(num, positions, image, budget)
+            if candidate.den is not None:
+                # the full angle had a closed form with a denominator (sympy writes
+                # cos(atan(x)) as 1/sqrt(1 + x^2)); keeping only the numerator would be wrong
+                continue
             cand_num = registry().lift(candidate.num)
             gone = not any(cand_num.degrees()[pos] > 0 for pos in positions)
             is_half = q.q % 2 == 0
@@ -287,18 +291,79 @@ def sine_form(p, budget=None) -> Coef:
                 out = one_minus_s2 ** (a // 2)
                 return out * Coef(gen(c_pos)) if a % 2 else out
 
-            num = registry().lift(_rewrite(num, [c_pos], image, budget).num)
+            rewritten = _rewrite(num, [c_pos], image, budget)
+            if rewritten.den is not None:
+                continue  # sin(q u) has a closed form with a denominator: keep the cosine
+            num = registry().lift(rewritten.num)
     return Coef(num)
 
 
 def shortest_display(p, budget=None) -> Coef:
     """Half angles merged into full ones (the rotor sandwich's form); otherwise the shorter
-    of the cosine form and the sine form, ties going to the cosine form."""
+    of the cosine form and the sine form, ties going to the cosine form.  A long result
+    over numeric angles is also tried as a sum of single cosines and sines."""
     merged, merged_half = merge_half_angles(p, budget)
     if merged_half or not _families(registry().lift(p)):
-        return merged
-    alt = sine_form(merged.num, budget)
-    return alt if len(registry().lift(alt.num)) < len(registry().lift(merged.num)) else merged
+        best = merged
+    else:
+        alt = sine_form(merged.num, budget)
+        best = alt if len(registry().lift(alt.num)) < len(registry().lift(merged.num)) else merged
+    return _shorter_linear_form(p, best, budget)
+
+
+LONG_DISPLAY_CHARS = 300  # shorter displays are left exactly as they were
+
+
+def _shorter_linear_form(p, best: Coef, budget) -> Coef:
+    """``best``, or the product-to-sum form of p when p's text is long and that is shorter:
+    cos(1/6) cos(7/32) written over cos(1/96) has degree 53; as cos(37/96)/2 + cos(5/96)/2
+    it reads again.  Only numeric angles (a symbolic angle's products read well as they are)."""
+    text = best.text()
+    if len(text) <= LONG_DISPLAY_CHARS:
+        return best
+    current = Coef(registry().lift(p))
+    for u, by_q in _families(registry().lift(p)).items():
+        if not u.is_number or len(by_q) != 1:
+            continue
+        candidate = _linearise_family(registry().lift(current.num), u, budget)
+        if candidate is not None:
+            current = candidate
+    if current.den is None and len(current.text()) < len(text):
+        return current
+    return best
+
+
+def _linearise_family(p, u, budget):
+    """p with the products c^a s^b (c = cos x, s = sin x, b <= 1, x = q u) of one family
+    replaced by sums of cos(k x), sin(k x); None when the family is not in reduced form.
+    c^a = 2^-a sum_j C(a, j) cos((a - 2j) x) and
+    s c^a = 2^-a sum_{j <= a/2} (C(a, j) - C(a, j - 1)) sin((a - 2j + 1) x)."""
+    from math import comb
+
+    (q, kinds), = _families(p)[u].items()
+    c_pos, s_pos = kinds.get("cos"), kinds.get("sin")
+    positions = [pos for pos in (c_pos, s_pos) if pos is not None]
+    degs = p.degrees()
+    if s_pos is not None and degs[s_pos] > 1:
+        return None
+    x = q * u
+
+    def image(key):
+        exps = dict(zip(positions, key))
+        a, b = exps.get(c_pos, 0), exps.get(s_pos, 0)
+        scale = Coef.constant(sympy.Rational(1, 2**a))
+        out = Coef.constant(0)
+        if b == 0:
+            for j in range(a + 1):
+                out = out + Coef.constant(comb(a, j)) * trig("cos", (a - 2 * j) * x)
+        else:
+            for j in range(a // 2 + 1):
+                weight = comb(a, j) - (comb(a, j - 1) if j else 0)
+                if weight:
+                    out = out + Coef.constant(weight) * trig("sin", (a - 2 * j + 1) * x)
+        return out * scale
+
+    return _rewrite(p, positions, image, budget)
 
 
 def over_half_angles(c: Coef):

@@ -82,6 +82,15 @@ class ValueKind:
         """The differences back in the shape of ``like`` (to show a failed check)."""
         raise NotImplementedError
 
+    # Numbers ------------------------------------------------------------------------------
+    def scalars(self, value) -> list:
+        """The sympy scalars the value is made of (components, entries)."""
+        return []
+
+    def numeric(self, value, digits: int):
+        """The floating-point approximation of the value to ``digits`` digits, or None."""
+        return None
+
     # show, emit, limits -------------------------------------------------------------------
     def report(self, value, simplifier, against=None):
         """The derived-forms report (gacalc.forms.report.Report): by default the value."""

@@ -24,6 +24,12 @@ class MatrixKind(ValueKind):
 
         return matrix_text(value, unicode)
 
+    def scalars(self, value) -> list:
+        return list(value)
+
+    def numeric(self, value, digits):
+        return value.applyfunc(lambda e: sympy.N(e, digits))  # complex entries too
+
     def add(self, left, right, sign, span):
         if left.shape != right.shape:
             return None
@@ -68,13 +74,13 @@ class MatrixKind(ValueKind):
         return sympy.Matrix(like.rows, like.cols, entries)
 
     def report(self, value, simplifier, against=None):
-        from gacalc.forms.report import VALUE, Report, ReportItem
+        from gacalc.forms.report import VALUE, Report, ReportItem, numeric_items
 
         complex_entries = any(x.has(sympy.I) for x in value)
         m = simplifier.matrix(value, complex_entries)
         return Report(f"{m.shape[0]}x{m.shape[1]} matrix", "matrix",
-                      [ReportItem("value", m, section=VALUE)], simplifier.complete)
-
+                      [ReportItem("value", m, section=VALUE)] + numeric_items(m),
+                      simplifier.complete)
 
     def report_lines(self, value, unicode, width):
         from gacalc.printing.text import scalar_text

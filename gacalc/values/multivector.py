@@ -31,6 +31,12 @@ class MultivectorKind(ValueKind):
 
         return multivector_text(value, unicode, width, indent)
 
+    def scalars(self, value) -> list:
+        return [e for _, e in value.items()]
+
+    def numeric(self, value, digits):
+        return value.evalf(digits)
+
     # Arithmetic ----------------------------------------------------------------------
     def add(self, left, right, sign, span):
         from gacalc.language import limits

@@ -21,6 +21,14 @@ class QuaternionKind(ValueKind):
 
         return quaternion_text(value, unicode)
 
+    def scalars(self, value) -> list:
+        return [value.a, value.b, value.c, value.d]
+
+    def numeric(self, value, digits):
+        from sympy import N
+
+        return Quaternion(*(N(part, digits) for part in self.scalars(value)))
+
     def add(self, left, right, sign, span):
         return left + right if sign > 0 else left - right
 
