@@ -236,14 +236,12 @@ NOTE_DIGITS = 10
 def numeric_value(value, digits: int = NOTE_DIGITS):
     """The floating-point approximation of an exact value without symbols, or None (it has
     symbols, is already numeric, or cannot be evaluated)."""
-    import sympy
-
     from gacalc.values import kind_of
 
     kind = kind_of(value)
     if kind is None:
         return None
-    if any(e.free_symbols or e.has(sympy.Float) for e in kind.scalars(value)):
+    if not kind.is_exact_constant(value):
         return None
     try:
         return kind.numeric(value, digits)

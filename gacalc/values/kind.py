@@ -87,6 +87,12 @@ class ValueKind:
         """The sympy scalars the value is made of (components, entries)."""
         return []
 
+    def is_exact_constant(self, value) -> bool:
+        """True when the value is exact and free of symbols (it has a numeric value)."""
+        import sympy
+
+        return not any(e.free_symbols or e.has(sympy.Float) for e in self.scalars(value))
+
     def numeric(self, value, digits: int):
         """The floating-point approximation of the value to ``digits`` digits, or None."""
         return None

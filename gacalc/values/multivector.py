@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import sympy
+
 from gacalc.algebra import Multivector, NotInvertibleError
 from gacalc.language.errors import GacalcMathError, GacalcTypeError
 
@@ -33,6 +35,21 @@ class MultivectorKind(ValueKind):
 
     def scalars(self, value) -> list:
         return [e for _, e in value.items()]
+
+    def is_exact_constant(self, value) -> bool:
+        # read off the generators, without converting 32,768-term coefficients to sympy
+        from gacalc.algebra.coefficients import generators_of
+
+        for c in value.coefs():
+            if c is None:
+                continue
+            if c.expr is not None:  # sympy-expression coefficients (floating point)
+                if c.expr.free_symbols or c.expr.has(sympy.Float):
+                    return False
+                continue
+            if any(info.expr.free_symbols for info in generators_of(c)):
+                return False
+        return True
 
     def numeric(self, value, digits):
         return value.evalf(digits)
