@@ -75,13 +75,7 @@ class Run:
         self.session = Session(budget=5.0, statement_budget=STATEMENT_SECONDS)
 
     def value(self, name_or_expr: str):
-        results = self.session.run(f"vv = {name_or_expr};")
-        last = results[-1] if results else None
-        if isinstance(last, GacalcLimitError):
-            raise _TimeLimit(name_or_expr)
-        if isinstance(last, GacalcError):
-            assert not isinstance(last, GacalcInternalError), last.traceback_text
-            raise _Refused(f"{name_or_expr}: {last.caret_text()}")
+        self.assign("vv", name_or_expr)
         return self.session.get("vv")
 
     def assign(self, name: str, text: str):
