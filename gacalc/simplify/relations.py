@@ -318,13 +318,15 @@ def _shorter_linear_form(p, best: Coef, budget) -> Coef:
     """``best``, or the product-to-sum form of p when p's text is long and that is shorter:
     cos(1/6) cos(7/32) written over cos(1/96) has degree 53; as cos(37/96)/2 + cos(5/96)/2
     it reads again.  Only numeric angles (a symbolic angle's products read well as they are)."""
+    numeric = [u for u, by_q in _families(registry().lift(p)).items()
+               if u.is_number and len(by_q) == 1]
+    if not numeric:
+        return best  # decided before printing anything: most values have no numeric angle
     text = best.text()
     if len(text) <= LONG_DISPLAY_CHARS:
         return best
     current = Coef(registry().lift(p))
-    for u, by_q in _families(registry().lift(p)).items():
-        if not u.is_number or len(by_q) != 1:
-            continue
+    for u in numeric:
         candidate = _linearise_family(registry().lift(current.num), u, budget)
         if candidate is not None:
             current = candidate
