@@ -9,7 +9,7 @@ import sympy
 from sympy.polys.polyerrors import BasePolynomialError
 
 from .basis import BASIS_GRADES, BASIS_INDICES, BASIS_NAMES, PRODUCT_TABLE, PSEUDOSCALAR, basis_of_word
-from .coefficients import Coef, DomainError, from_expr
+from .coefficients import Coef, DomainError, from_expr, generators_of
 from .context import current
 
 
@@ -111,9 +111,16 @@ class Multivector:
 
     @property
     def free_symbols(self) -> set:
+        # read off the generators each coefficient uses: no sympy conversion of the terms
         out = set()
-        for _, e in self.items():
-            out |= e.free_symbols
+        for c in self._c:
+            if c is None:
+                continue
+            if c.expr is not None:
+                out |= c.expr.free_symbols
+                continue
+            for info in generators_of(c):
+                out |= info.expr.free_symbols
         return out
 
     def is_zero(self) -> bool:

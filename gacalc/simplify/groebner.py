@@ -15,6 +15,7 @@ generators (kept in a small cache per basis).
 from __future__ import annotations
 
 from collections import OrderedDict
+from functools import lru_cache
 
 import flint
 import sympy
@@ -35,10 +36,6 @@ def used_positions(p) -> list[int]:
 def var_key(pos, promote=None):
     """Sort key of a generator position in the basis order (highest first)."""
     return (_KIND_RANK.get(registry().info(pos).kind, 4), 0 if pos == promote else 1, pos)
-
-
-def _to_fmpq(c):
-    return flint.fmpq(int(c.numerator), int(c.denominator))
 
 
 class Basis:
@@ -118,17 +115,24 @@ def groebner_flint(polys, ctx, budget=None):
         return []
     if budget is not None:
         budget.check()
-    gens = sympy.symbols(f"x0:{ctx.nvars()}", cls=sympy.Dummy)
+    key = tuple(tuple((tuple(m), (int(c.p), int(c.q))) for m, c in zip(p.monoms(), p.coeffs()))
+                for p in polys)
+    basis = _groebner_terms(ctx.nvars(), key)
+    return [ctx.from_dict({m: flint.fmpq(n, d) for m, (n, d) in g}) for g in basis]
+
+
+@lru_cache(maxsize=256)
+def _groebner_terms(nvars: int, polys: tuple) -> tuple:
+    """The basis of polynomials given as (exponents, (num, den)) terms, in the same form.
+
+    A pure function of its arguments, so its cache holds no session's state: a fresh
+    session meets the basis of "n is a unit vector" without computing it again."""
+    gens = sympy.symbols(f"x0:{nvars}", cls=sympy.Dummy)
     sympy_polys = [
-        sympy.Poly.from_dict(
-            {tuple(m): sympy.Rational(int(c.p), int(c.q)) for m, c in zip(p.monoms(), p.coeffs())},
-            *gens,
-            domain=sympy.QQ,
-        )
-        for p in polys
+        sympy.Poly.from_dict({m: sympy.Rational(n, d) for m, (n, d) in terms}, *gens,
+                             domain=sympy.QQ)
+        for terms in polys
     ]
     basis = sympy.groebner(sympy_polys, *gens, order=ORDER, domain=sympy.QQ)
-    out = []
-    for g in basis.polys:
-        out.append(ctx.from_dict({tuple(m): _to_fmpq(c) for m, c in g.terms()}))
-    return out
+    return tuple(tuple((tuple(m), (int(c.numerator), int(c.denominator))) for m, c in g.terms())
+                 for g in basis.polys)

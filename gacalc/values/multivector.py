@@ -37,19 +37,11 @@ class MultivectorKind(ValueKind):
         return [e for _, e in value.items()]
 
     def is_exact_constant(self, value) -> bool:
-        # read off the generators, without converting 32,768-term coefficients to sympy
-        from gacalc.algebra.coefficients import generators_of
-
-        for c in value.coefs():
-            if c is None:
-                continue
-            if c.expr is not None:  # sympy-expression coefficients (floating point)
-                if c.expr.free_symbols or c.expr.has(sympy.Float):
-                    return False
-                continue
-            if any(info.expr.free_symbols for info in generators_of(c)):
-                return False
-        return True
+        # free_symbols reads the generators: no sympy conversion of long coefficients
+        if value.free_symbols:
+            return False
+        return not any(c is not None and c.expr is not None and c.expr.has(sympy.Float)
+                       for c in value.coefs())
 
     def numeric(self, value, digits):
         return value.evalf(digits)
