@@ -194,3 +194,14 @@ def test_latex_display_comes_from_the_installed_printer():
     with AlgebraContext(Hooks(latex=None)).active():
         assert value._repr_latex_() is None
     assert (e1 + e2)._repr_latex_().startswith("$$")
+
+
+def test_values_from_a_session_display_as_latex_in_a_fresh_process():
+    # A notebook user who only runs a Session still gets rich display of the values it hands
+    # out (IPython's _repr_latex_ protocol, common practice), without importing the export API.
+    code = ("from gacalc.language.session import Session\n"
+            "s = Session(); s.run('x = e1 + 2 e12')\n"
+            "print(s.get('x')._repr_latex_())\n")
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                         check=True, cwd=ALGEBRA.parent.parent).stdout
+    assert out.startswith("$$") and "e}_{1}" in out and "e}_{12}" in out

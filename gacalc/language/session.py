@@ -25,7 +25,7 @@ import traceback
 from typing import Iterator
 
 from gacalc.algebra import AlgebraError
-from gacalc.algebra.context import AlgebraContext
+from gacalc.algebra.context import INSTALLED, AlgebraContext, install_latex
 import gacalc.simplify  # noqa: F401  (installs the simplifier the algebra calls)
 from gacalc.textfiles import read_script
 
@@ -47,6 +47,18 @@ from .watchdog import StatementClock, StatementTimeout, statement_budget
 __all__ = ["Session", "Result", "ValueResult", "CheckResult", "NoteResult",
            "DeclarationResult", "ShowResult", "EmitResult", "HelpResult", "FileResult",
            "MAX_INPUT_CHARS", "SAVE_HEADER", "MIN_SIMPLIFY_BUDGET"]
+
+
+def _latex_display(value) -> str:
+    # values a session hands out display as LaTeX in notebooks; the export API (and
+    # sympy's printers) load on the first display, not at start-up
+    from gacalc.export import latex_of
+
+    return latex_of(value)
+
+
+if INSTALLED.latex is None:
+    install_latex(_latex_display)
 
 DEFAULT_BUDGET = 10.0             # seconds for one simplification
 DEFAULT_STATEMENT_BUDGET = 30.0   # seconds of wall-clock time for one statement
