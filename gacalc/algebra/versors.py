@@ -16,9 +16,7 @@ here, cheaper and tidier than the general inverse.
 
 from __future__ import annotations
 
-from fractions import Fraction
 
-import sympy
 
 from .context import current
 from .multivector import (as_multivector as _as_multivector, AlgebraError, Multivector, NotInvertibleError,
