@@ -16,8 +16,6 @@ here, cheaper and tidier than the general inverse.
 
 from __future__ import annotations
 
-
-
 from .context import current
 from .multivector import (as_multivector as _as_multivector, AlgebraError, Multivector, NotInvertibleError,
                           simplified_scalar)
