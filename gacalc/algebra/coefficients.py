@@ -360,6 +360,9 @@ def from_expr(expr) -> Coef:
     if isinstance(expr, sympy.exp):
         arg = canonical_expr(expr.args[0])
         return Coef(generator(sympy.exp(arg), "other"))
+    if isinstance(expr, (sympy.Derivative, sympy.Subs)):
+        # derivatives of functions of a scalar (r1'(t) of a declared vector r(t)): atoms
+        return Coef(generator(expr, "other"))
     if isinstance(expr, sympy.Function) or expr.is_Atom:
         if getattr(expr, "is_Boolean", False) or expr.is_Relational:
             raise DomainError("a condition is not a value")

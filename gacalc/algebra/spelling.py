@@ -45,6 +45,22 @@ class InputTextPrinter(StrPrinter):
         name = self._renames.get(expr.func.__name__, expr.func.__name__)
         return f"{name}({', '.join(self._print(arg) for arg in expr.args)})"
 
+    def _print_Derivative(self, expr):
+        # gacalc's own call: diff(r1(t), t), diff(r1(t), t, 2); mixed ones nest
+        text = self._print(expr.expr)
+        for variable, count in expr.variable_count:
+            order = f", {count}" if count != 1 else ""
+            text = f"diff({text}, {self._print(variable)}{order})"
+        return text
+
+    def _print_Subs(self, expr):
+        # a derivative taken at a point: subs(diff(r1(t), t), t, 2*t)
+        text, variables, points = expr.args
+        for variable, point in zip(variables, points):
+            text = f"subs({self._print(text) if not isinstance(text, str) else text}, " \
+                   f"{self._print(variable)}, {self._print(point)})"
+        return text
+
     def _print_Exp1(self, expr):
         return "exp(1)"
 

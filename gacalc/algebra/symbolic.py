@@ -23,24 +23,38 @@ KIND_COMPONENTS = {
 UNIT_BY_DEFAULT = {"rotor"}
 
 
-def component_symbols(kind: str, name: str) -> list:
+def component_symbols(kind: str, name: str, depends: tuple = ()) -> list:
+    """The components: real symbols, or real functions of the scalars ``depends``
+    (vector r(t) -> r1(t), r2(t), r3(t))."""
     try:
         _, suffixes = KIND_COMPONENTS[kind]
     except KeyError:
         raise AlgebraError(f"unknown kind {kind!r}") from None
+    if depends:
+        return [sympy.Function(name + s, real=True)(*depends) for s in suffixes]
     return [sympy.Symbol(name + s, real=True) for s in suffixes]
 
 
-def symbolic(kind: str, name: str, unit: bool = False):
-    """(Multivector, conditions): conditions are sympy Exprs equal to zero on the declared set."""
+def component_names(kind: str, name: str) -> list:
+    """The names of the components (a1 a2 a3 for vector a)."""
+    return [name + s for s in KIND_COMPONENTS[kind][1]]
+
+
+def symbolic(kind: str, name: str, unit: bool = False, depends: tuple = ()):
+    """(Multivector, conditions): conditions are sympy Exprs equal to zero on the declared set.
+
+    ``depends``: real scalar symbols the components are functions of; a unit condition
+    then comes with its first derivatives (R R~ = 1 gives <dR/dt R~> = 0)."""
     indices, _ = KIND_COMPONENTS.get(kind, (None, None))
     if indices is None:
         raise AlgebraError(f"unknown kind {kind!r}")
-    syms = component_symbols(kind, name)
+    syms = component_symbols(kind, name, depends)
     mv = Multivector(dict(zip(indices, syms)))
     conditions = []
     if unit or kind in UNIT_BY_DEFAULT:
         if kind == "scalar":
             raise AlgebraError("a unit scalar is just ±1")
         conditions.append(sympy.Add(*[s**2 for s in syms]) - 1)
+        for variable in depends:
+            conditions.append(sympy.Add(*[s * sympy.diff(s, variable) for s in syms]))
     return mv, conditions

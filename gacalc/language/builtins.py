@@ -459,4 +459,6 @@ def _ln(ctx, x):
     return _scalar_mv(_sympy().log(value))
 
 
+from . import builtins_calculus  # noqa: E402,F401  (diff, nabla, jacobian, ...)
+
 BUILTIN_NAMES: tuple[str, ...] = tuple(sorted(BUILTINS))

@@ -86,11 +86,14 @@ class State:
     ans: object = None
     known_symbols: set = field(default_factory=set)       # names already noted as symbols
     log: list = field(default_factory=list)               # statement texts, for save
+    # name -> the scalar names it is a function of, for 'vector r(t)': r and r1, r2, r3
+    dependence: dict = field(default_factory=dict)
 
     def copy(self) -> "State":
         return State(dict(self.values), dict(self.functions), dict(self.declarations),
                      set(self.unit_names), dict(self.facts), list(self.assumptions),
-                     self.ans, set(self.known_symbols), list(self.log))
+                     self.ans, set(self.known_symbols), list(self.log),
+                     dict(self.dependence))
 
     def conditions(self) -> list:
         out = []
@@ -152,6 +155,9 @@ class Evaluator:
         state = self.state
         if name in state.values:
             return state.values[name]
+        if name in state.dependence:       # r1 of 'vector r(t)' is r1(t)
+            return Multivector.scalar(sympy.Function(name, real=True)(
+                *(symbol(param) for param in state.dependence[name])))
         if name == "ans":
             if state.ans is None:
                 raise GacalcNameError("ans has no value yet: it holds the last result", span)
@@ -334,6 +340,8 @@ class Evaluator:
         if frame is not None and name in frame:
             return self._as_product(node, frame[name], frame)
         state = self.state
+        if name in state.dependence:
+            return self.call_dependent(name, node, frame)
         if name in state.values or name in ("ans", "pi", "I") or _BLADE_NAME.match(name):
             return self._as_product(node, self.lookup(name, node.name_span, frame), frame)
         if name in state.functions:
@@ -349,6 +357,24 @@ class Evaluator:
             if error is not None:
                 raise error
         return self._as_product(node, self.new_symbol(name, node.name_span), frame)
+
+    def call_dependent(self, name: str, node: S.Call, frame):
+        """r(s) or r1(s) for a name declared as a function ('vector r(t)'): the value with
+        its variables replaced by the arguments (r(t) is r itself)."""
+        params = self.state.dependence[name]
+        if len(node.args) != len(params):
+            raise GacalcTypeError(f"{name} is declared as a function of {', '.join(params)}, "
+                                  f"so it takes {len(params)} argument"
+                                  f"{'' if len(params) == 1 else 's'}", node.span)
+        args = [self.scalar(self.evaluate(arg, frame), arg.span, f"an argument of {name}")
+                for arg in node.args]
+        variables = [symbol(param) for param in params]
+        if name in self.state.values:
+            value = self.state.values[name]
+            if args == variables:
+                return value
+            return value.subs(dict(zip(variables, args)))
+        return Multivector.scalar(sympy.Function(name, real=True)(*args))
 
     def _unknown_function(self, node: S.Call, force: bool):
         candidates = list(BUILTINS) + list(self.state.functions)

@@ -455,7 +455,8 @@ class _StatementParser:
             if token.kind in _STATEMENT_END:
                 self.fail(f"expected a name after '{self.previous().text}'")
             self.advance()
-            names.append(S.Param(self._new_name(token, keyword.value), token.span))
+            names.append(S.Param(self._new_name(token, keyword.value), token.span,
+                                 self._dependence(keyword.value)))
             if self.check(T.COMMA):
                 self.advance()
                 continue
@@ -472,6 +473,28 @@ class _StatementParser:
         if len({param.name for param in names}) != len(names):
             self.fail("a name is declared twice in the same statement", keyword.span)
         return S.Declare(keyword.span, keyword.value, names, unit)
+
+    def _dependence(self, kind: str) -> tuple:
+        """The scalars a declared name depends on: the (t) of 'vector r(t)'."""
+        if not self.check(T.LPAREN):
+            return ()
+        self.advance()
+        params = []
+        while True:
+            token = self.peek()
+            if not token.is_name or self.peek(1).kind not in (T.COMMA, T.RPAREN):
+                self.fail(f"a {kind} depends on plain scalar names, as in {kind} r(t)",
+                          token.span)
+            self.advance()
+            param = self._new_name(token, "variable")
+            if param in params:
+                self.fail(f"'{param}' appears twice", token.span)
+            params.append(param)
+            if self.check(T.COMMA):
+                self.advance()
+                continue
+            self.advance()  # ')'
+            return tuple(params)
 
     def _conditions(self, keyword: str) -> list[S.Condition]:
         conditions = []

@@ -15,7 +15,8 @@ from . import syntax as S
 from . import tokens as T
 from .builtins import BUILTINS
 from .errors import GacalcError, GacalcMathError, GacalcNameError, GacalcTypeError
-from .evaluator import Condition, Evaluator, State, UserFunction, is_multivector, relevant_conditions
+from .evaluator import (Condition, Evaluator, State, UserFunction, is_multivector,
+                        relevant_conditions, symbol)
 from .help import help_text
 from .results import (CheckResult, DeclarationResult, EmitResult, HelpResult, NoteResult,
                       ShowResult, ValueResult)
@@ -81,6 +82,7 @@ class StatementExecutors:
             state.functions.pop(name, None)
             state.declarations.pop(name, None)
             state.unit_names.discard(name)
+            state.dependence.pop(name, None)
             state.values[name] = value
         state.ans = value
         self._log(state, statement)
@@ -99,6 +101,7 @@ class StatementExecutors:
                                       "recursion would never end", call.name_span)
         state.values.pop(name, None)
         state.declarations.pop(name, None)
+        state.dependence.pop(name, None)
         state.unit_names.discard(name)
         state.functions[name] = UserFunction(name, params, statement.body,
                                              " ".join(statement.span.text.split()))
@@ -113,18 +116,23 @@ class StatementExecutors:
         if statement.unit and kind not in ("vector", "bivector", "rotor"):
             raise GacalcTypeError(f"'unit' applies to vectors, bivectors and rotors, not to a "
                                   f"{kind}", statement.span)
+        from gacalc.algebra.symbolic import component_names
+
         created, all_conditions = {}, []
         for param in statement.names:
             name = param.name
-            value, exprs = symbolic(kind, name, unit=statement.unit)
-            components = sorted(str(s) for s in value.free_symbols) if kind != "scalar" else []
+            depends = tuple(symbol(variable) for variable in param.depends)
+            value, exprs = symbolic(kind, name, unit=statement.unit, depends=depends)
+            components = sorted(component_names(kind, name)) if kind != "scalar" else []
             for component in components:
                 clash = _reserved_kind(component)
                 if clash:
                     raise GacalcNameError(f"{kind} {name} would have a component {component}, "
                                           f"which is {clash}; choose another name", param.span)
             text = _unit_text(kind, name) if exprs else None
-            conditions = [Condition(expr, text, "declaration") for expr in exprs]
+            texts = [text] + [f"{name} stays unit as {v} varies" for v in param.depends]
+            conditions = [Condition(expr, texts[min(i, len(texts) - 1)], "declaration")
+                          for i, expr in enumerate(exprs)]
             state.values[name] = value
             state.functions.pop(name, None)
             state.declarations[name] = kind
@@ -133,7 +141,12 @@ class StatementExecutors:
             else:
                 state.unit_names.discard(name)
             state.facts[name] = conditions
-            state.known_symbols.update(components or [name])
+            state.known_symbols.update((components or [name]) + list(param.depends))
+            for dependent in [name] + components:
+                if param.depends:
+                    state.dependence[dependent] = param.depends
+                else:
+                    state.dependence.pop(dependent, None)
             created[name] = value
             all_conditions.extend(conditions)
         self._log(state, statement)

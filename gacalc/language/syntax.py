@@ -116,6 +116,7 @@ class Assign(Statement):
 class Param:
     name: str
     span: Span = field(repr=False, compare=False)
+    depends: tuple = ()       # declared as a function of these scalars: vector r(t)
 
 
 @dataclass
