@@ -170,16 +170,17 @@ def directional(f: Multivector, coords, u: Multivector) -> Multivector:
     return total
 
 
-def jacobian(f: Multivector, variables) -> sympy.Matrix:
+def jacobian(f: Multivector, variables, conditions=()) -> sympy.Matrix:
     """The matrix of dF_i/dv_j: rows e1, e2, e3 for a vector F (one row for a scalar F),
-    one column per scalar variable."""
+    one column per scalar variable; entries in the simplifier's display form."""
     if f.grades() <= {0}:
         rows = (0,)
     elif f.grades() <= {1}:
         rows = (1, 2, 3)
     else:
         raise AlgebraError("the Jacobian needs a vector (or scalar) valued function")
-    columns = [diff(f, v) for v in variables]
+    simplifier = current().simplifier
+    columns = [simplifier.simplify(diff(f, v), conditions) for v in variables]
     return sympy.Matrix(len(rows), len(columns), lambda i, j: columns[j][rows[i]])
 
 

@@ -37,6 +37,9 @@ def _vector_variable(ctx, index: int):
     if coords is None:
         ctx.fail("the variable must be a declared vector (such as x after 'vector x'), "
                  "whose components are plain symbols", index)
+    if any(condition.free_symbols & set(coords) for condition in ctx.conditions()):
+        ctx.fail("the variable is constrained by a side condition (such as 'unit'); "
+                 "differentiate with respect to a free vector", index)
     return coords
 
 
@@ -93,7 +96,7 @@ def _jacobian(ctx, f, v):
     variables = _jacobian_variables(ctx, 1)
     if not value.grades() <= {0, 1}:
         ctx.fail("the Jacobian needs a vector (or scalar) valued F", 0)
-    return _calculus().jacobian(value, variables)
+    return _calculus().jacobian(value, variables, ctx.conditions())
 
 
 def _jacobian_variables(ctx, index: int):

@@ -244,6 +244,11 @@ class StatementExecutors:
         report = build_report(value, session=self, against=against, conditions=conditions,
                               deadline=self._clock.within(None, MIN_SIMPLIFY_BUDGET),
                               call_seconds=float(self.budget))
+        if against is None:
+            from gacalc.forms.kinematics import add_kinematics
+
+            report = add_kinematics(report, value, _time_symbols(state), conditions,
+                                    self._simplify_budget())
         text = report.to_latex() if statement.latex else report.to_text(self.unicode)
         results.append(self._result(ShowResult, statement, report=report, report_text=text,
                                     latex=statement.latex))
@@ -285,6 +290,15 @@ def _reserved_kind(name: str) -> str | None:
     if name in T.KEYWORDS or name in T.CONSTANTS or name == "ans":
         return "a reserved name"
     return None
+
+
+def _time_symbols(state: State) -> set:
+    """The scalars declared values depend on (t of 'vector r(t)'), and a declared scalar t:
+    show reports the angular velocity of a rotor with respect to these."""
+    names = {param for params in state.dependence.values() for param in params}
+    if state.declarations.get("t") == "scalar":
+        names.add("t")
+    return {symbol(name) for name in names}
 
 
 def _unit_text(kind: str, name: str) -> str:

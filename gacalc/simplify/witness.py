@@ -12,6 +12,7 @@ import random
 
 import mpmath
 import sympy
+from sympy.core.function import AppliedUndef
 
 from gacalc.algebra.coefficients import Coef, from_expr, registry
 
@@ -36,8 +37,8 @@ class Witness:
         """False when a witness shows p nonzero on the set; None otherwise."""
         eqs = [Coef(q) for q in self.cs.polys]
         target_coef = Coef(p)
-        unknowns = sorted(set().union(*(e.to_expr().free_symbols for e in eqs)), key=str)
-        others = sorted(target_coef.to_expr().free_symbols - set(unknowns), key=str)
+        unknowns = sorted(set().union(*(_free_atoms(e.to_expr()) for e in eqs)), key=str)
+        others = sorted(_free_atoms(target_coef.to_expr()) - set(unknowns), key=str)
         rng = random.Random(20240601)
         with mpmath.workdps(self.DIGITS):
             for attempt in range(self.STARTS):
@@ -93,6 +94,12 @@ class Witness:
         return None
 
 
+def _free_atoms(expr) -> set:
+    """What a point must fix: the free symbols, and the values of functions of a scalar
+    and of their derivatives (r1(t), diff(r1(t), t)), which are independent unknowns."""
+    return expr.free_symbols | expr.atoms(AppliedUndef, sympy.Derivative, sympy.Subs)
+
+
 def _evaluate(c: Coef, point: dict, cache=None):
     """(value, sum of |term values|) of a Coef's numerator at a point {Symbol: mpf}."""
     cache = {} if cache is None else cache
@@ -134,8 +141,10 @@ def _generator_value(pos, point, cache):
         if b < 0 and n % 2 == 0:
             raise _OutsideDomain()
         value = mpmath.root(abs(b), n) * (1 if b >= 0 else -1)
+    elif info.expr in point:              # r1(t), diff(r1(t), t): an unknown of its own
+        value = point[info.expr]
     else:
-        subs = {s: sympy.Float(point[s], Witness.DIGITS) for s in info.expr.free_symbols if s in point}
+        subs = {s: sympy.Float(v, Witness.DIGITS) for s, v in point.items() if info.expr.has(s)}
         v = sympy.N(info.expr.subs(subs), Witness.DIGITS)
         if not v.is_number or v.is_real is False:
             raise _OutsideDomain()
