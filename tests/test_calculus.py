@@ -328,3 +328,26 @@ def test_errors_are_one_line_with_position(text, column):
     assert e.column == column, (e.column, e.caret_text())
     # the session is as it was
     assert str(value(s, "y")) == "1"
+
+
+def test_emitted_angular_velocity_of_a_declared_rotor_path():
+    # emit turns R0(t)... into the input R and diff(R0(t), t)... into R_dt (an even
+    # sequence); fed a rotor path and its finite-difference rate, the code gives Omega
+    s = Session()
+    ok(s, "rotor R(t)")
+    code = [r for r in ok(s, "emit python angular_velocity(R, t) as omega")
+            if hasattr(r, "code")][-1].code
+    assert "def omega(R, R_dt):" in code
+    namespace: dict = {}
+    exec(compile(code, "emitted", "exec"), namespace)  # our generated code
+
+    def path(tt):
+        # rotor(e12, 3 t) as (R0, R23, R31, R12): cos(3t/2) - sin(3t/2) e12 (DESIGN.md)
+        return np.array([np.cos(1.5 * tt), 0.0, 0.0, -np.sin(1.5 * tt)])
+
+    h = 1e-6
+    for tt in (0.3, -1.2, 2.0):
+        rate = (path(tt + h) - path(tt - h)) / (2 * h)
+        got = np.array(namespace["omega"](path(tt), rate), float)
+        # Omega = 3 e12 for a rotation at rate 3 in the e12 plane (common practice)
+        assert np.allclose(got, [0, 0, 3], atol=1e-6)

@@ -262,8 +262,13 @@ class StatementExecutors:
         if name is None and isinstance(statement.expr, S.Name):
             name = statement.expr.name
         declared = dict(state.declarations)
+        payload = kind_of(value).export(value)
+        if statement.target != "latex":    # code takes numbers: r1(t) is the input r1
+            from .dependent import inputs_for_emit
+
+            payload, declared = inputs_for_emit(payload, state, declared)
         try:
-            code = export.emit(statement.target, kind_of(value).export(value), name=name,
+            code = export.emit(statement.target, payload, name=name,
                                declared=declared, options={})
         except export.ExportError as error:
             raise GacalcError(f"emit {statement.target}: {error}", statement.span) from None
