@@ -215,7 +215,7 @@ def series(x: Multivector, s, s0, n: int) -> Multivector:
     """Taylor polynomial sum_{k <= n} X^(k)(s0) (s - s0)^k / k! of a multivector in s."""
     if not is_scalar_symbol(s):
         raise AlgebraError("a series is taken in a scalar symbol")
-    if s in sympy.sympify(s0).free_symbols:
+    if isinstance(s0, sympy.Basic) and s in s0.free_symbols:
         raise AlgebraError("the expansion point must not contain the series variable")
     total = Multivector({})
     derivative = x

@@ -59,19 +59,19 @@ def _diff(ctx, x, s, k=None):
 
 @builtin("nabla(F, x)", "vector derivative sum e_i dF/dx_i with respect to a declared "
          "vector x: gradient of a scalar, div + curl bivector of a vector field",
-         "nabla(x . x, x)", "calculus")
+         "vector x; nabla(x . x, x)", "calculus")
 def _nabla(ctx, f, x):
     return _calculus().nabla(_field(ctx), _vector_variable(ctx, 1))
 
 
 @builtin("div(F, x)", "divergence sum e_i _| dF/dx_i with respect to a declared vector x",
-         "div(x, x)", "calculus")
+         "vector x; div(x, x)", "calculus")
 def _div(ctx, f, x):
     return _calculus().divergence(_field(ctx), _vector_variable(ctx, 1))
 
 
 @builtin("curl(F, x)", "Gibbs curl of a vector field: dual(nabla /\\ F) with respect to a "
-         "declared vector x", "curl(cross(e3, x), x)", "calculus")
+         "declared vector x", "vector x; curl(cross(e3, x), x)", "calculus")
 def _curl(ctx, f, x):
     value = _field(ctx)
     coords = _vector_variable(ctx, 1)
@@ -81,7 +81,7 @@ def _curl(ctx, f, x):
 
 
 @builtin("ddir(F, x, u)", "directional derivative (u . nabla) F with respect to a declared "
-         "vector x along the vector u", "ddir(x . x, x, e1)", "calculus")
+         "vector x along the vector u", "vector x; ddir(x . x, x, e1)", "calculus")
 def _ddir(ctx, f, x, u):
     value = _field(ctx)
     coords = _vector_variable(ctx, 1)
@@ -90,7 +90,7 @@ def _ddir(ctx, f, x, u):
 
 @builtin("jacobian(F, v)", "matrix of dF_i/dv_j of a vector (or scalar) F, with respect to a "
          "declared vector v or a list of scalar symbols (s1, s2, ...)",
-         "jacobian(rotate(rotor(e12, t), e1), (t,))", "calculus")
+         "vector a; jacobian(rotate(rotor(e12, t), a), a)", "calculus")
 def _jacobian(ctx, f, v):
     value = _field(ctx)
     variables = _jacobian_variables(ctx, 1)
