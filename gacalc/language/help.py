@@ -70,12 +70,26 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
     "vector": ("declare symbolic vectors: vector a, b [unit]",
                "vector a     a = a1*e1 + a2*e2 + a3*e3\n"
                "vector n unit  adds the condition n1^2 + n2^2 + n3^2 = 1\n"
+               "vector r(t)  components r1(t), r2(t), r3(t), functions of t (help calculus)\n"
                "  example: vector n unit"),
     "bivector": ("declare symbolic bivectors: bivector B [unit]",
                  "bivector B   B = B23*e23 + B31*e31 + B12*e12\n  example: bivector B unit"),
     "multivector": ("declare general multivectors: multivector M",
                     "multivector M   components M0 M1 M2 M3 M23 M31 M12 M123\n"
                     "  example: multivector M"),
+    "calculus": ("derivatives: diff, nabla, div, curl, ddir, jacobian, angular_velocity, "
+                 "series",
+                 "diff(X, t) [diff(X, t, k)]  derivative in a scalar symbol t\n"
+                 "vector r(t)   components r1(t), r2(t), r3(t): functions of t (also scalar\n"
+                 "              u(t), rotor R(t)); diff(r1(t), t) is the derivative of r1\n"
+                 "nabla(F, x)   vector derivative sum e_i dF/dx_i for a declared vector x\n"
+                 "              (div(F, x), curl(F, x) Gibbs vector, ddir(F, x, u) = (u . nabla) F)\n"
+                 "jacobian(F, v)  dF_i/dv_j for a declared vector v or a list (s1, s2, ...)\n"
+                 "angular_velocity(R, t)  Omega with dR/dt = -1/2 Omega R (space frame);\n"
+                 "              angular_velocity_vector(R, t) is w with Omega = w I, and\n"
+                 "              d/dt (R x R~) = cross(w, R x R~)\n"
+                 "series(X, s, s0, n)  Taylor polynomial through (s - s0)^n\n"
+                 "  example: scalar w, t; angular_velocity(rotor(e12, w t), t)"),
     "unit": ("after a declaration: the declared values have norm 1",
              "  example: vector n unit"),
     "operators": ("operators and their precedence", _OPERATORS_HELP),
@@ -126,7 +140,7 @@ def _overview() -> str:
         categories.setdefault(BUILTINS[name].category, []).append(name)
     lines = ["statements:",
              "  EXPR   NAME = EXPR   f(x, y) = EXPR   (a trailing ';' hides the result)",
-             "  scalar | vector | bivector | rotor | multivector NAME, ... [unit]",
+             "  scalar | vector | bivector | rotor | multivector NAME[(t)], ... [unit]",
              "  check L == R [given C = D, ...]    assume C = D, ... | assume none",
              "  show [latex] EXPR [against B]      emit "
              f"{'|'.join(export_targets.TARGETS)} EXPR [as NAME] [to \"file\"]",
@@ -134,5 +148,5 @@ def _overview() -> str:
              "functions:"]
     for category, names in categories.items():
         lines.append(f"  {category + ':':17}{', '.join(names)}")
-    lines.append("more: help operators, help names, help NAME")
+    lines.append("more: help operators, help names, help calculus, help NAME")
     return "\n".join(lines)
