@@ -351,3 +351,41 @@ def test_emitted_angular_velocity_of_a_declared_rotor_path():
         got = np.array(namespace["omega"](path(tt), rate), float)
         # Omega = 3 e12 for a rotation at rate 3 in the e12 plane (common practice)
         assert np.allclose(got, [0, 0, 3], atol=1e-6)
+
+
+def test_emitted_c_jacobian_with_respect_to_rotor_parameters(tmp_path):
+    # the optimiser's case: d(R a R~)/d(R0, R23, R31, R12) for a list of the rotor's
+    # components, emitted to C (gcc -Wall -Wextra -Werror) and compared with central finite
+    # differences of R a R~ in tests/ga_reference.py (an independent numpy Cl(3,0))
+    import ga_reference as ga
+    from test_export_c import compile_and_run
+
+    s = Session()
+    ok(s, "rotor R; vector a")
+    jac = value(s, "J = jacobian(rotate(R, a), (R0, R23, R31, R12))")
+    assert jac.shape == (3, 4)
+    declared = {"R": "rotor", "a": "vector"}
+    names = ["R0", "R23", "R31", "R12", "a1", "a2", "a3"]
+    rng = random.Random(17)
+    samples = []
+    for _ in range(5):
+        q = np.array([rng.uniform(-1, 1) for _ in range(4)])
+        q /= np.linalg.norm(q)
+        numbers = list(q) + [rng.uniform(-2, 2) for _ in range(3)]
+        samples.append({sympy.Symbol(n, real=True): float(x) for n, x in zip(names, numbers)})
+    results = compile_and_run(tmp_path, jac, declared, False, samples)
+    h = 1e-6
+    for values, got in zip(samples, results):
+        r = np.array([values[sympy.Symbol(n, real=True)] for n in names[:4]])
+        x = np.zeros(8)
+        x[1:4] = [values[sympy.Symbol(n, real=True)] for n in names[4:]]
+        columns = []
+        for j, index in enumerate((0, 4, 5, 6)):
+            def turned(shift):
+                rotor = np.zeros(8)
+                rotor[[0, 4, 5, 6]] = r
+                rotor[index] += shift
+                return ga.gp(ga.gp(rotor, x), ga.rev(rotor))[1:4]
+            columns.append((turned(h) - turned(-h)) / (2 * h))
+        want = np.array(columns).T.ravel()     # row-major 3x4
+        assert np.allclose(got, want, atol=1e-6), (got, want)

@@ -90,7 +90,7 @@ def _ddir(ctx, f, x, u):
 
 @builtin("jacobian(F, v)", "matrix of dF_i/dv_j of a vector (or scalar) F, with respect to a "
          "declared vector v or a list of scalar symbols (s1, s2, ...)",
-         "vector a; jacobian(rotate(rotor(e12, t), a), a)", "calculus")
+         "rotor R; jacobian(rotate(R, e1), (R0, R23, R31, R12))", "calculus")
 def _jacobian(ctx, f, v):
     value = _field(ctx)
     variables = _jacobian_variables(ctx, 1)
