@@ -230,6 +230,8 @@ def test_angular_velocity_of_a_constant_rate_rotor():
     holds(s, "check angular_velocity_vector(rotor(e3, w t), t) == w e3")
     # a scaled rotor has the same angular velocity
     holds(s, "check angular_velocity(3 rotor(e12, w t), t) == w e12")
+    # 1 + t e12 is sqrt(1 + t^2) rotor(e12, -2 atan(t)): Omega = d(-2 atan t)/dt e12
+    holds(s, "check angular_velocity(1 + t e12, t) == -2/(1 + t^2) e12")
 
 
 def test_derivative_of_a_rotated_vector_is_cross_product_with_omega():
@@ -318,6 +320,9 @@ def test_series_agrees_with_sympy_series():
     ("scalar t; diff(e1, t, -1)", 23),
     ("vector x; jacobian(x e12, x)", 20),
     ("scalar t; angular_velocity(e1 t, t)", 28),
+    ("scalar t; series(e1/t, t, 0, 2)", 11),
+    ("scalar t; jacobian(e1 t, (t, 2))", 26),
+    ("vector r(t); r(1, 2)", 14),
 ])
 def test_errors_are_one_line_with_position(text, column):
     s = Session()

@@ -211,6 +211,17 @@ def angular_velocity_vector(r: Multivector, t, unit: bool | None = None) -> Mult
 # series
 
 
+def _at(x: Multivector, s, s0) -> Multivector:
+    """x with s = s0; AlgebraError when a component is not defined there (a pole)."""
+    values = {}
+    for k, e in x.items():
+        v = e.subs(s, s0)
+        if v.has(sympy.zoo, sympy.nan, sympy.oo, -sympy.oo):
+            raise AlgebraError(f"not defined at {s} = {s0}: no Taylor series there")
+        values[k] = v
+    return Multivector(values)
+
+
 def series(x: Multivector, s, s0, n: int) -> Multivector:
     """Taylor polynomial sum_{k <= n} X^(k)(s0) (s - s0)^k / k! of a multivector in s."""
     if not is_scalar_symbol(s):
@@ -222,7 +233,7 @@ def series(x: Multivector, s, s0, n: int) -> Multivector:
     step = Multivector({0: s - s0})
     power = Multivector({0: 1})
     for k in range(n + 1):
-        value = derivative.subs({s: s0})
+        value = _at(derivative, s, s0)
         total = total + (value * power).scale(sympy.Rational(1, math.factorial(k)))
         if k == n:
             break
