@@ -120,6 +120,10 @@ def test_declared_functions_of_time_print_and_read_back():
     holds(s, f"check diff(r . r, t, 2) == {second}")
     # bare component names are the functions: diff(r1, t) is r1'(t)
     holds(s, "check diff(r1, t) == diff(r1(t), t)")
+    # a declared function replaced by an expression: its derivatives follow
+    # (sin'' + sin = 0, common practice)
+    holds(s, "check subs(diff(u, t, 2) + u, u, sin(t)) == 0")
+    holds(s, "check subs(diff(u r, t), u, t^2) == 2 t r + t^2 diff(r, t)")
     # at another argument: chain rule through the point (sympy Subs, printed as subs)
     shifted = value(s, "diff(r1(2 t), t)")
     holds(s, f"check diff(r1(2 t), t) == {shifted}")

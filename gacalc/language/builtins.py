@@ -431,8 +431,15 @@ def _from_quaternion(ctx, *args):
 def _subs(ctx, a, t, value):
     expr = ctx.scalar(1)
     sympy = _sympy()
+    from sympy.core.function import AppliedUndef
+
+    if isinstance(expr, AppliedUndef):
+        # a declared function of a scalar (scalar u(t)): its derivatives follow
+        value = ctx.scalar(2)
+        return ctx.multivector(0).map_coefficients(lambda e: e.subs(expr, value).doit())
     if not isinstance(expr, sympy.Symbol):
-        ctx.fail("the second argument must be a scalar symbol such as t or a1", 1)
+        ctx.fail("the second argument must be a scalar symbol such as t or a1 (or a "
+                 "declared function such as u(t))", 1)
     return ctx.multivector(0).subs({expr: ctx.scalar(2)})
 
 
