@@ -49,12 +49,22 @@ def _field(ctx, index: int = 0):
 
 @builtin("diff(X, s, [k])", "derivative of X with respect to the scalar symbol s (k-th "
          "derivative with k); through trig, exp, sqrt, products, inverses and declared "
-         "functions such as vector r(t)", "diff(rotor(e12, 2 t), t)", "calculus")
+         "functions such as vector r(t); a real matrix entry by entry", "diff(rotor(e12, 2 t), t)", "calculus")
 def _diff(ctx, x, s, k=None):
-    value = _field(ctx)
     variable = _scalar_symbol(ctx, 1)
     order = 1 if k is None else ctx.integer(2, 0, MAX_DERIVATIVE_ORDER)
-    return _calculus().diff(value, variable, order)
+    if _is_real_matrix(x):      # matrix(R) and friends: entry by entry
+        from gacalc.algebra import Multivector
+
+        return x.applyfunc(lambda e: _calculus().diff(Multivector.scalar(e), variable,
+                                                      order)[0])
+    return _calculus().diff(_field(ctx), variable, order)
+
+
+def _is_real_matrix(value) -> bool:
+    import sympy
+
+    return isinstance(value, sympy.MatrixBase) and not any(e.has(sympy.I) for e in value)
 
 
 @builtin("nabla(F, x)", "vector derivative sum e_i dF/dx_i with respect to a declared "
