@@ -1,4 +1,4 @@
-"""A formula as data: a sum of coefficient x candidate terms over an optional scalar
+r"""A formula as data: a sum of coefficient x candidate terms over an optional scalar
 denominator, written as gacalc input text, as LaTeX, and evaluated back to a multivector.
 
 A candidate is a product of dot products of the variables times one *shape*:

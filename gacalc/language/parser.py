@@ -573,6 +573,15 @@ class _StatementParser:
             path, path_span = token.value, token.span
         return S.Emit(keyword.span, target.value, expr, as_name, path, path_span)
 
+    def _statement_formula(self) -> S.Statement:
+        keyword = self.advance()
+        if self.at_end():
+            self.fail("formula needs a value: formula EXPR (or formula auto, formula off)")
+        if (self.check(T.NAME, "auto") or self.check(T.NAME, "off")) \
+                and self.peek(1).kind in _STATEMENT_END:
+            return S.FormulaStatement(keyword.span, None, self.advance().value)
+        return S.FormulaStatement(keyword.span, self.expression())
+
     def _path(self, statement: str) -> Token:
         token = self.peek()
         if token.kind == T.UNTERMINATED_STRING:

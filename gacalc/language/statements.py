@@ -87,8 +87,13 @@ class StatementExecutors:
         if not complete:
             results.append(self._note(statement, "simplification ran out of time: the value "
                                       "is correct but not fully simplified"))
+        formula = None
+        if self.formulas:          # the 'formula auto' setting (gacalc.language.formula_support)
+            from .formula_support import formula_outcome
+
+            formula = formula_outcome(value, state, self._clock).formula
         results.append(self._result(ValueResult, statement, value=value, name=name,
-                                    complete=complete))
+                                    complete=complete, formula=formula))
 
     def _do_FunctionDef(self, statement, state, results, context):
         name = statement.name
@@ -234,6 +239,11 @@ class StatementExecutors:
         text = report.to_latex() if statement.latex else report.to_text(self.unicode)
         results.append(self._result(ShowResult, statement, report=report, report_text=text,
                                     latex=statement.latex))
+
+    def _do_FormulaStatement(self, statement, state, results, context):
+        from .formula_support import execute_formula
+
+        execute_formula(self, statement, state, results)
 
     def _do_Emit(self, statement, state, results, context):
         value = self._evaluate(statement.expr, state, results, statement)

@@ -164,6 +164,14 @@ class Show(Statement):
 
 
 @dataclass
+class FormulaStatement(Statement):
+    """formula EXPR (``expr`` set), or the setting: formula auto / formula off (``mode``)."""
+
+    expr: Node | None
+    mode: str | None = None    # 'auto' or 'off' for the setting, None for formula EXPR
+
+
+@dataclass
 class Emit(Statement):
     target: str               # one of tokens.EMIT_TARGETS
     expr: Node
