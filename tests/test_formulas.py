@@ -155,7 +155,7 @@ def test_inverse_and_norm_of_a_bivector():
 
 
 @pytest.mark.parametrize("expr", [
-    "a b", "I a", "a /\\ b /\\ c", "(a /\\ b) . (c /\\ d)", "n a n", "rotor(n, t)",
+    "a b", "I a", "a I", "a /\\ b /\\ c", "(a /\\ b) . (c /\\ d)", "n a n", "rotor(n, t)",
     "t a + 3", "(a . b)/(a . c) c", "a ((a . b) + t)^2", "inverse(a + I b)", "cross(a, n) m",
 ])
 def test_printed_formulas_read_back_equal(expr):
@@ -239,3 +239,39 @@ def test_a_name_called_off_still_works_as_a_value():
     s = session()
     ok(s, "off = a")
     assert formula_of(s, "(off)").text == "a"
+
+
+# show --------------------------------------------------------------------------------
+def test_show_prints_norm_and_inverse_in_terms_of_the_vectors():
+    s = session()
+    report = ok(s, "show a /\\ b")[-1]
+    text = report.text
+    lagrange = "(a . a) (b . b) - (a . b)^2"
+    assert f"{lagrange}" in text
+    lines = {line.split("#")[1].split("--")[0].strip(): line.split("#")[0].strip()
+             for line in text.splitlines() if not line.startswith("#") and "#" in line}
+    assert lines["norm2"] == lagrange
+    assert lines["norm"] == f"sqrt({lagrange})"
+    assert lines["inverse"] == f"(b /\\ a)/({lagrange})"
+    assert lines["formula"] == "a /\\ b"
+    # every formula line reads back as the value the report computed
+    for label, expected in (("norm2", "norm2(a /\\ b)"), ("inverse", "inverse(a /\\ b)"),
+                            ("dual", "dual(a /\\ b)"), ("reverse", "(a /\\ b)~")):
+        assert ok(s, f"check {lines[label]} == {expected}")[-1].outcome == "holds"
+    assert f"where {lagrange} != 0" in text
+    assert "a1*b2" in text                      # the components stay in the value item
+
+
+def test_show_says_when_there_is_no_formula():
+    s = session()
+    text = ok(s, "show a1 e1")[-1].text
+    assert "# formula: none" in text
+
+
+def test_toolbar_shows_the_formula_setting():
+    from gacalc.repl import toolbar_text
+
+    s = session()
+    assert "components, F3" in toolbar_text(s, width=400)
+    ok(s, "formula auto")
+    assert "formulas, F3" in toolbar_text(s, width=400)

@@ -59,6 +59,8 @@ def _value_lines(item: ReportItem, unicode: bool) -> list:
     from gacalc.values import kind_of
 
     value = item.value
+    if item.formula is not None:
+        return [item.formula.text(unicode)]
     if isinstance(value, str):
         return []
     if isinstance(value, tuple):
@@ -79,7 +81,9 @@ def _annotation(item: ReportItem, unicode: bool) -> str:
     parts = [item.note] if item.note else []
     if item.condition is not None:
         neq = "\u2260" if unicode else "!="
-        parts.append(f"where {scalar_text(item.condition, unicode)} {neq} 0")
+        condition = (item.condition_formula.text(unicode) if item.condition_formula is not None
+                     else scalar_text(item.condition, unicode))
+        parts.append(f"where {condition} {neq} 0")
     return "; ".join(parts)
 
 
@@ -114,7 +118,8 @@ def render_latex(report: Report, notes: bool = True) -> str:
     """One aligned block: \\text{label} & value, with notes in a third column."""
     rows = []
     for item in report.items:
-        row = r"\text{%s} & %s" % (_latex_text(item.label), _latex_value(item.value))
+        value = item.formula.latex() if item.formula is not None else _latex_value(item.value)
+        row = r"\text{%s} & %s" % (_latex_text(item.label), value)
         remark = _latex_remark(item) if notes else ""
         if remark:
             row += r" && " + remark
@@ -143,7 +148,9 @@ def _latex_remark(item: ReportItem) -> str:
     if item.note:
         parts.append(r"\text{%s}" % _latex_text(item.note))
     if item.condition is not None:
-        parts.append(r"\text{where } %s \neq 0" % latex_of(item.condition))
+        condition = (item.condition_formula.latex() if item.condition_formula is not None
+                     else latex_of(item.condition))
+        parts.append(r"\text{where } %s \neq 0" % condition)
     return r",\ ".join(parts)
 
 

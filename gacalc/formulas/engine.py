@@ -91,6 +91,7 @@ def _recognize(value, variables, conditions, budget, others, display):
             raise NoFormula(f"no formula: the value depends on the components of {name}; "
                             "formulas use declared vectors and bivectors")
     used = [v for v in variables if free & set(v.symbols)]
+    _refuse_functions_of_components(value, used)
     reg = registry()
     ctx = reg.ctx
     positions = _positions(used, reg)
@@ -110,6 +111,21 @@ def _recognize(value, variables, conditions, budget, others, display):
     formula = Formula(_arranged(terms), used, denominator_formula)
     _verify(value, formula, conditions, budget)
     return formula
+
+
+def _refuse_functions_of_components(value, used):
+    """A generator such as sqrt(a1^2 + a2^2 + a3^2) or cos(a1) hides components from the
+    linear solve: the formula would still contain them, so there is none to give."""
+    from gacalc.algebra.coefficients import generators_of
+
+    components = {s for v in used for s in v.symbols}
+    for c in value.coefs():
+        if c is None:
+            continue
+        for info in generators_of(c):
+            if info.kind != "symbol" and info.expr.free_symbols & components:
+                raise NoFormula(f"no formula: {info.name} is a function of the components "
+                                "(only polynomials and quotients of them are recognised)")
 
 
 def _positions(used, reg) -> list[list[int]]:

@@ -138,6 +138,25 @@ class Formula:
         return rf"\frac{{{numerator}}}{{{self.denominator.latex()}}}"
 
 
+@dataclass
+class SquareRoot:
+    """sqrt of a scalar formula (a norm): sqrt((a . a) (b . b) - (a . b)^2)."""
+
+    radicand: Formula
+
+    def text(self, unicode: bool = False) -> str:
+        return f"sqrt({self.radicand.text(unicode)})"
+
+    def latex(self) -> str:
+        return rf"\sqrt{{{self.radicand.latex()}}}"
+
+    def value(self) -> Multivector:
+        return Multivector({0: sympy.sqrt(self.radicand.value()[0])})
+
+    def __str__(self):
+        return self.text()
+
+
 # Text ------------------------------------------------------------------------------------
 def _is_atom(text: str) -> bool:
     return re.fullmatch(r"[A-Za-z][A-Za-z0-9_]*|\d+|\([^()]*\)", text) is not None
@@ -219,7 +238,7 @@ def _shape_text(candidate: Candidate, variables) -> str | None:
         return "I"
     if shape == "dualvec":
         v = variables[candidate.indices[0]]
-        return v.name if v.kind == "bivector" else f"I {names[0]}"
+        return v.name if v.kind == "bivector" else f"{names[0]} I"
     if shape in ("wedge", "wedge3"):
         return " /\\ ".join(names)
     raise ValueError(shape)
@@ -234,7 +253,7 @@ def _term_text(term: Term, variables) -> tuple[int, str]:
     if not factors:
         return sign, coefficient
     if len(factors) > 1 or coefficient != "1":
-        factors = [f"({f})" if (" /\\ " in f or f.startswith("I ")) else f for f in factors]
+        factors = [f"({f})" if (" /\\ " in f or f.endswith(" I")) else f for f in factors]
     if coefficient != "1":
         factors.insert(0, f"({coefficient})" if _needs_parentheses(coefficient) else coefficient)
     text = factors[0]
@@ -282,7 +301,7 @@ def _term_latex(term: Term, variables) -> tuple[int, str]:
                    if len(ix) == 3 else None),
         "pseudo": "I",
         "dualvec": ((sympy.latex(sympy.Symbol(variables[ix[0]].name))
-                     if variables[ix[0]].kind == "bivector" else rf"I {names[ix[0]]}") if ix else None),
+                     if variables[ix[0]].kind == "bivector" else rf"{names[ix[0]]} I") if ix else None),
         "wedge": " \\wedge ".join(names[k] for k in ix),
         "wedge3": " \\wedge ".join(names[k] for k in ix),
     }[c.shape]

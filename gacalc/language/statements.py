@@ -236,6 +236,14 @@ class StatementExecutors:
         report = build_report(value, session=self, against=against, conditions=conditions,
                               deadline=self._clock.within(None, MIN_SIMPLIFY_BUDGET),
                               call_seconds=float(self.budget))
+        from .formula_support import state_variables
+
+        variables, others = state_variables(state)
+        if variables:
+            from gacalc.forms.formula_items import with_formulas
+
+            report = with_formulas(report, variables, others, conditions,
+                                   self._clock.within(None, MIN_SIMPLIFY_BUDGET))
         text = report.to_latex() if statement.latex else report.to_text(self.unicode)
         results.append(self._result(ShowResult, statement, report=report, report_text=text,
                                     latex=statement.latex))
