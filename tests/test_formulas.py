@@ -275,3 +275,94 @@ def test_toolbar_shows_the_formula_setting():
     assert "components, F3" in toolbar_text(s, width=400)
     ok(s, "formula auto")
     assert "formulas, F3" in toolbar_text(s, width=400)
+
+
+# emit ---------------------------------------------------------------------------------
+def emitted(s, text):
+    return ok(s, text)[-1].code
+
+
+def test_emit_latex_writes_the_formula_as_a_paper_does():
+    from test_export_latex import assert_katex_accepts
+
+    s = session()
+    fragments = [emitted(s, "emit latex a _| (b /\\ c)"),
+                 emitted(s, "emit latex inverse(a /\\ b) as Binv"),
+                 emitted(s, "emit latex rotate(rotor(n, t), a)"),
+                 emitted(s, "emit latex a /\\ b /\\ c + cross(a, b) . c")]
+    assert fragments[0] == r"(\mathbf{a} \cdot \mathbf{b}) \mathbf{c} - (\mathbf{a} \cdot \mathbf{c}) \mathbf{b}"
+    assert r"\lvert \mathbf{a} \rvert^{2}" in fragments[1] and r"\frac" in fragments[1]
+    assert r"\times" in fragments[2] and r"\wedge" in fragments[3]
+    assert_katex_accepts(fragments)
+    components = emitted(s, "emit latex components a _| (b /\\ c)")
+    assert "a_{1}" in components and r"\cdot" not in components
+
+
+def _load(tmp_path, code, name):
+    import importlib.util
+
+    path = tmp_path / f"{name}.py"
+    path.write_text(code, encoding="utf-8")
+    spec = importlib.util.spec_from_file_location(name, path)
+    module = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(module)
+    return getattr(module, name)
+
+
+def test_emit_python_computes_through_dot_and_cross_when_cheaper(tmp_path):
+    from scipy.spatial.transform import Rotation
+
+    s = session()
+    code = emitted(s, "emit python rotate(rotor(n, t), a) as turn")
+    assert "Computed through dot and cross products" in code
+    turn = _load(tmp_path, code, "turn")
+    rng = np.random.default_rng(7)
+    for _ in range(5):
+        axis = rng.normal(size=3)
+        axis /= np.linalg.norm(axis)
+        a, angle = rng.normal(size=3), rng.uniform(-3, 3)
+        expected = Rotation.from_rotvec(angle * axis).apply(a)   # scipy as the reference
+        assert np.allclose(turn(a=list(a), n=list(axis), t=angle), expected)
+    code = emitted(s, "emit python inverse(a /\\ b) as inv")
+    inv = _load(tmp_path, code, "inv")
+    for _ in range(5):
+        a, b = rng.normal(size=3), rng.normal(size=3)
+        # (a /\ b)^-1 = -(a /\ b)/|a /\ b|^2; its components are -cross(a, b)/|a x b|^2
+        # (common practice: B^2 = -|B|^2 for a bivector in Cl(3,0))
+        x = np.cross(a, b)
+        assert np.allclose(inv(a=list(a), b=list(b)), -x / (x @ x))
+
+
+def test_emit_keeps_components_when_they_are_cheaper():
+    s = session()
+    code = emitted(s, "emit python a /\\ b as w")
+    assert "Computed through" not in code
+    code = emitted(s, "emit python components rotate(rotor(n, t), a) as turn")
+    assert "Computed through" not in code
+
+
+def test_emit_c_through_the_formula_compiles_and_agrees(tmp_path):
+    import shutil
+    import subprocess
+
+    gcc = shutil.which("gcc")
+    if gcc is None:
+        pytest.skip("gcc is not installed")
+    s = session()
+    code = emitted(s, "emit c rotate(rotor(n, t), a) as turn")
+    assert "Computed through dot and cross products" in code
+    driver = ("#include <stdio.h>\nvoid turn(const double *a, const double *n, double t, "
+              "double *out);\nint main(void){double a[3]={1,2,3}, n[3]={0.6,0,0.8}, out[3];"
+              "turn(a, n, 0.5, out);printf(\"%.17g %.17g %.17g\\n\", out[0], out[1], out[2]);"
+              "return 0;}\n")
+    (tmp_path / "turn.c").write_text(code)
+    (tmp_path / "main.c").write_text(driver)
+    built = subprocess.run([gcc, "-std=c99", "-Wall", "-Werror", str(tmp_path / "turn.c"),
+                            str(tmp_path / "main.c"), "-o", str(tmp_path / "prog"), "-lm"],
+                           capture_output=True, text=True)
+    assert built.returncode == 0, built.stderr
+    out = subprocess.run([str(tmp_path / "prog")], capture_output=True, text=True).stdout
+    from scipy.spatial.transform import Rotation
+
+    expected = Rotation.from_rotvec(0.5 * np.array([0.6, 0, 0.8])).apply([1, 2, 3])
+    assert np.allclose([float(x) for x in out.split()], expected)

@@ -556,6 +556,10 @@ class _StatementParser:
             forms = [f"emit {t.name} EXPR" for t in export_targets.described()]
             self.fail("emit needs a target: " + ", ".join(forms[:-1]) + " or " + forms[-1])
         self.advance()
+        components = False
+        if self.check(T.NAME, "components") and self._starts_operand(1):
+            self.advance()
+            components = True
         if self.at_end():
             self.fail(f"emit {target.value} needs a value")
         expr = self.expression()
@@ -571,7 +575,7 @@ class _StatementParser:
             self.advance()
             token = self.expect(T.STRING, 'expected a file name in quotes after \'to\': to "out.py"')
             path, path_span = token.value, token.span
-        return S.Emit(keyword.span, target.value, expr, as_name, path, path_span)
+        return S.Emit(keyword.span, target.value, expr, as_name, path, path_span, components)
 
     def _statement_formula(self) -> S.Statement:
         keyword = self.advance()

@@ -262,9 +262,16 @@ class StatementExecutors:
         if name is None and isinstance(statement.expr, S.Name):
             name = statement.expr.name
         declared = dict(state.declarations)
+        options = {}
+        if not statement.components:      # a proved formula, unless components are asked for
+            from .formula_support import formula_outcome
+
+            formula = formula_outcome(value, state, self._clock).formula
+            if formula is not None:
+                options["formula"] = formula
         try:
             code = export.emit(statement.target, kind_of(value).export(value), name=name,
-                               declared=declared, options={})
+                               declared=declared, options=options)
         except export.ExportError as error:
             raise GacalcError(f"emit {statement.target}: {error}", statement.span) from None
         path = self._write_emitted(statement, name, code, context)

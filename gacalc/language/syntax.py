@@ -178,6 +178,7 @@ class Emit(Statement):
     as_name: str | None
     path: str | None
     path_span: Span | None = field(default=None, repr=False, compare=False)
+    components: bool = False  # emit TARGET components EXPR: no formula, the components
 
 
 @dataclass

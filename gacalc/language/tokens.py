@@ -105,7 +105,7 @@ DECLARATION_KINDS = ("scalar", "vector", "bivector", "rotor", "multivector")
 # target registered later is accepted too).
 EMIT_TARGETS = tuple(_export_targets.TARGETS)
 # Words with a meaning inside one statement only; elsewhere they are ordinary names.
-SOFT_KEYWORDS = ("unit", "none", "force", "auto", "off", *EMIT_TARGETS)
+SOFT_KEYWORDS = ("unit", "none", "force", "auto", "off", "components", *EMIT_TARGETS)
 CONSTANTS = ("pi", "I")
 
 GREEK_LETTERS = {
