@@ -366,3 +366,23 @@ def test_emit_c_through_the_formula_compiles_and_agrees(tmp_path):
 
     expected = Rotation.from_rotvec(0.5 * np.array([0.6, 0, 0.8])).apply([1, 2, 3])
     assert np.allclose([float(x) for x in out.split()], expected)
+
+
+# Common denominators in the text layout --------------------------------------------------
+@pytest.mark.parametrize("expr", ["inverse(a /\\ b)", "inverse(a)", "(e1 + e2)/(1 + t)",
+                                  "inverse(a + b /\\ c)"])
+def test_a_shared_denominator_is_written_once_and_reads_back(expr):
+    s = session()
+    text = ok(s, expr)[-1].text
+    value = ok(s, f"x = {expr}")[-1].value
+    shared = value.shared_denominator()
+    if shared is not None:
+        assert text.startswith("(") and text.count(")/") >= 1
+    check = ok(s, f"check ({text}) == {expr}")[-1]
+    assert check.outcome == "holds"
+
+
+def test_the_bivector_inverse_prints_its_denominator_once():
+    s = session()
+    text = ok(s, "inverse(a /\\ b)")[-1].text
+    assert text.count("a1^2*b2^2") == 1
