@@ -281,7 +281,7 @@ def _name_latex(variable) -> str:
 
 def _term_latex(term: Term, variables) -> tuple[int, str]:
     expr = term.coef.to_expr()
-    sign = -1 if expr.could_extract_minus_sign() else 1
+    sign = _split(term.coef)[0]       # the same sign as the text form
     if sign < 0:
         expr = -expr
     names = [_name_latex(v) for v in variables]
@@ -309,7 +309,7 @@ def _term_latex(term: Term, variables) -> tuple[int, str]:
         if c.shape in ("wedge", "wedge3", "triple") and (factors or expr != 1):
             shape = f"({shape})"
         factors.append(shape)
-    coefficient = sympy.latex(expr)
+    coefficient = sympy.latex(expr, order="old") if expr.is_Add else sympy.latex(expr)
     if expr != 1 or not factors:
         if expr.is_Add:
             coefficient = rf"\left({coefficient}\right)"
