@@ -386,3 +386,18 @@ def test_the_bivector_inverse_prints_its_denominator_once():
     s = session()
     text = ok(s, "inverse(a /\\ b)")[-1].text
     assert text.count("a1^2*b2^2") == 1
+
+
+def test_show_names_a_repeated_long_scalar_once():
+    s = session("multivector M")
+    text = ok(s, "show M")[-1].text
+    assert "\nD = M0^4" in text and ")/D" in text and "where D != 0" in text
+    definition = next(line for line in text.splitlines() if line.startswith("D = "))
+    inverse = next(line for line in text.splitlines() if line.endswith(")/D"))
+    assert text.count("M0^4") == 1
+    start = text.index("# inverse")
+    body = text[start:].split("\n", 1)[1].split("\n# dual")[0]
+    t = Session()
+    ok(t, "multivector M\n" + definition)
+    assert ok(t, f"check {body} == inverse(M)")[-1].outcome == "holds"
+    assert inverse
