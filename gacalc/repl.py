@@ -5,7 +5,9 @@
 - highlighting by the lexer generated from the language's token table;
 - Enter runs the input unless brackets are still open or the line ends with an
   operator (then it starts a new line; Esc Enter always starts one);
-- a bottom toolbar with the declared names, the output mode and active assumptions;
+- a bottom toolbar with the declared names, the output mode, whether results print as
+  formulas (F3 switches, like the statements formula auto / formula off) and active
+  assumptions;
 - Ctrl-C while a statement runs abandons it and keeps every name (the statement runs
   in the main thread; the Session discards its partial state); Ctrl-C at the prompt
   clears the line; Ctrl-D leaves.
@@ -76,7 +78,8 @@ def toolbar_text(session, width: int = 100) -> str:
     assumed = [c.text for c in session.conditions if getattr(c, "origin", "") == "assume"]
     names = " | ".join(parts) if parts else "no names yet"
     mode = "unicode" if session.unicode else "ascii"
-    tail = f"  [{mode}, F2 switches]"
+    shown = "formulas" if getattr(session, "formulas", False) else "components"
+    tail = f"  [{mode}, F2 switches | {shown}, F3 switches]"
     if assumed:
         tail = f"  assuming {'; '.join(dict.fromkeys(assumed))}" + tail
     text = f" {names}{tail}"
@@ -245,6 +248,11 @@ class Repl:
         @bindings.add("f2")
         def _switch_mode(event):
             session.unicode = not session.unicode
+
+        @bindings.add("f3")
+        def _switch_formulas(event):
+            # results as formulas (formula auto) or as components (formula off)
+            session.formulas = not session.formulas
 
         return bindings
 

@@ -12,6 +12,8 @@ between runs; medians are reported.  Lines printed (the last one is the summary)
     latency median: X ms (...)   typical REPL statements through the Session API
     memory: X × import sympy     peak RSS of running every demo script
     rotor kernel ops (...)       operation counts of the emitted R x R~ kernel (export)
+    recognition: ...             `formula EXPR` against plain `EXPR` (ratio) for the handbook
+                                 identities, and the slowest case in ms (target: 200 ms)
     min ratio: X                 the smallest product ratio for k = 3..5
 
 Usage: python scripts/bench.py [--quick]
@@ -253,6 +255,32 @@ def case_latency(repeats):
     return out
 
 
+RECOGNITION_SETUP = "vector a, b, c, d\nvector m, n unit\nscalar t"
+RECOGNITION_CASES = {
+    "BAC-CAB": "a _| (b /\\ c)",
+    "Lagrange": "norm2(cross(a, b))",
+    "scalar quadruple": "cross(a, b) . cross(c, d)",
+    "vector quadruple": "cross(cross(a, b), cross(c, d))",
+    "Rodrigues": "rotate(rotor(n, t), a)",
+    "bivector inverse": "inverse(a /\\ b)",
+    "two reflections": "reflect(reflect(a, m), n)",
+}
+
+
+def case_recognition(repeats):
+    """{label: (formula ms, plain ms)}: the statement `formula EXPR` against `EXPR`, the
+    same value without recognition, side by side in one session each."""
+    out = {}
+    for label, expr in RECOGNITION_CASES.items():
+        s = new_session()
+        run_ok(s, RECOGNITION_SETUP)
+        run_ok(s, expr)                      # first-use notes and caches out of the way
+        ours, base = side_by_side(lambda: run_ok(s, "formula " + expr),
+                                  lambda: run_ok(s, expr), repeats)
+        out[label] = (ours * 1000, base * 1000)
+    return out
+
+
 def peak_rss_kib(cmd):
     """Peak resident set size of a child process, via GNU time's format or resource."""
     code = (
@@ -305,6 +333,10 @@ def main():
     counts = rotor_kernel_counts()
     print("rotor kernel ops (sympy.count_ops): " + "; ".join(
         f"{form} " + " ".join(f"{op}={n}" for op, n in sorted(ops.items())) for form, ops in counts.items()))
+    recognition = case_recognition(repeats)
+    print("recognition (formula EXPR / EXPR): " + ", ".join(
+        f"{label} {ours / base:.1f} ({ours:.0f} ms)" for label, (ours, base) in recognition.items())
+        + f"; slowest {max(ours for ours, _ in recognition.values()):.0f} ms (target 200 ms)")
     small = [ratios[k] for k in ratios if k >= 3]
     print(f"min ratio: {min(small):.1f}")
 

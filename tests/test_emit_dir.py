@@ -16,7 +16,7 @@ def run(args, cwd):
 
 def test_every_emit_becomes_a_file(tmp_path):
     script = tmp_path / "kernel.gac"
-    script.write_text('vector a, b\nemit c a b as wedge_ab\nemit latex a /\\ b\nemit python a b to "sub/ab.py"\n')
+    script.write_text('vector a, b\nemit c a b as wedge_ab\nemit latex components a /\\ b\nemit python a b to "sub/ab.py"\n')
     (tmp_path / "out" / "sub").mkdir(parents=True)
     done = run(["--emit-dir", "out", str(script)], tmp_path)
     assert done.returncode == 0, done.stderr

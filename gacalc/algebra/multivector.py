@@ -105,6 +105,22 @@ class Multivector:
     def to_expr_dict(self) -> dict:
         return dict(self.items())
 
+    def shared_denominator(self):
+        """(numerator, denominator) when two or more components have the same non-constant
+        denominator and no component has another: self = numerator / denominator, both
+        Multivectors (the denominator a scalar).  None otherwise.  For printing a value
+        with its denominator written once."""
+        present = [c for c in self._c if c is not None]
+        if len(present) < 2 or any(c.expr is not None or c.den is None for c in present):
+            return None
+        den = present[0].parts()[1]
+        for c in present[1:]:
+            if c.parts()[1] != den:
+                return None
+        numerator = Multivector.from_coefs(None if c is None else Coef(c.parts()[0])
+                                           for c in self._c)
+        return numerator, Multivector.from_coefs([Coef(den)] + [None] * 7)
+
     def coefficient_texts(self):
         """(index, ASCII coefficient text) for the nonzero components, in basis order."""
         return [(k, c.text()) for k, c in enumerate(self._c) if c is not None]

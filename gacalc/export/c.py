@@ -71,7 +71,7 @@ def _real_parts(matrix):
     return [part for pair in parts for part in pair], True
 
 
-def plan_for(value, declared=None, name=None):
+def plan_for(value, declared=None, name=None, formula=None):
     """(plan, layout facts) for a read Value: shared by render and the op counts."""
     reserved = reserved_names()
     name = check_function_name(name, reserved)
@@ -84,6 +84,14 @@ def plan_for(value, declared=None, name=None):
         vector_slots = value.vector_slots()
     free = set().union(*(e.free_symbols for e in expressions)) if expressions else set()
     plan = build_plan(expressions, free, declared, reserved, vector_slots)
+    if formula is not None and not value.is_matrix:
+        from dataclasses import replace
+
+        from .formula_plan import cheaper_plan
+
+        chosen, note = cheaper_plan(plan.rewrite(_EXPAND_POWERS), formula, value, declared,
+                                    reserved)
+        plan = replace(chosen, remarks=[note]) if note else chosen
     return plan.rewrite(_EXPAND_POWERS), name, complex_layout
 
 
@@ -114,9 +122,9 @@ def _header(value, plan, name, labels, complex_layout, c_type):
     return ['/*'] + [(' * ' + line).rstrip() for line in lines] + [' */']
 
 
-def render(value, name=None, declared=None, single=False):
+def render(value, name=None, declared=None, single=False, formula=None):
     """The text of a C99 translation unit defining one function for a read Value."""
-    plan, name, complex_layout = plan_for(value, declared, name)
+    plan, name, complex_layout = plan_for(value, declared, name, formula)
     c_type = 'float' if single else 'double'
     texts = symbol_texts(plan.arguments, lambda base, i: f'{base}[{i}]')
     printer = ArgumentPrinter(texts, single)
@@ -152,4 +160,6 @@ def operation_counts(value, declared=None):
 
 def emit(value, name=None, declared=None, options=None):
     """The entry of the export-target table (gacalc.export.targets)."""
-    return render(value, name=name, declared=declared, single=bool((options or {}).get('float')))
+    options = options or {}
+    return render(value, name=name, declared=declared, single=bool(options.get('float')),
+                  formula=options.get('formula'))

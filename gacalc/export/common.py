@@ -27,7 +27,7 @@ KIND_BASIS = {kind: tuple(BASIS_NAMES[index] for index in indices)
 KINDS = tuple(KIND_SUFFIXES) + ('scalar',)
 
 DEFAULT_NAME = 'gacalc_value'
-_OPTION_NAMES = {'float', 'wedge', 'aligned'}
+_OPTION_NAMES = {'float', 'wedge', 'aligned', 'formula'}  # formula: gacalc.formulas.Formula
 _IDENTIFIER = re.compile(r'[A-Za-z][A-Za-z0-9_]*\Z')
 
 

@@ -140,5 +140,11 @@ def render(value, name=None, options=None):
 
 
 def emit(value, name=None, declared=None, options=None):
-    """The entry of the export-target table (gacalc.export.targets)."""
+    """The entry of the export-target table (gacalc.export.targets); a formula in the
+    options (gacalc.formulas, proved equal to the value) is written as a paper does."""
+    formula = (options or {}).get('formula')
+    if formula is not None and not value.is_matrix:
+        body = formula.latex()
+        return body if name is None else f'{GacalcLatexPrinter().doprint_name(name)} = {body}'
+    options = {k: v for k, v in (options or {}).items() if k != 'formula'}
     return render(value, name=name, options=options)

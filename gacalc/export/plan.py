@@ -23,18 +23,20 @@ class Plan:
     outputs: list              # [tuple of Expr terms], one per output slot: the sum
     #                            of the terms, kept apart so a kernel's x + w + w stays so
     sandwiches: list = field(default_factory=list)
+    remarks: list = field(default_factory=list)   # how it computes (formula_plan's note)
 
     def notes(self):
         """Assumptions the generated code makes, one sentence each."""
         return [f'{s.describe()} is computed as a rotation: it assumes the unit rotor '
-                f'condition {s.rotor_name} {s.rotor_name}~ = 1.' for s in self.sandwiches]
+                f'condition {s.rotor_name} {s.rotor_name}~ = 1.' for s in self.sandwiches] \
+            + list(self.remarks)
 
     def rewrite(self, transform):
         """The same plan with transform applied to every expression."""
         return Plan(self.arguments,
                     [(symbol, transform(expr)) for symbol, expr in self.assignments],
                     [tuple(transform(term) for term in terms) for terms in self.outputs],
-                    self.sandwiches)
+                    self.sandwiches, self.remarks)
 
 
 def _temporaries(taken):

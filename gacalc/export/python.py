@@ -68,14 +68,17 @@ def _docstring(value, plan, labels, numpy):
         + [INDENT + '"""']
 
 
-def render(value, name=None, declared=None, numpy=False):
-    """The text of a Python module defining one function for a read Value."""
+def render(value, name=None, declared=None, numpy=False, formula=None):
+    """The text of a Python module defining one function for a read Value (through the
+    formula's dot and cross products when that is cheaper)."""
     reserved = reserved_names()
     name = check_function_name(name, reserved)
     reserved.add(name)
     vector_slots = value.vector_slots()
     plan = build_plan(value.expressions(), value.free_symbols, declared, reserved,
                       vector_slots)
+    if formula is not None and not value.is_matrix:
+        plan = _through_formula(plan, formula, value, declared, reserved)
     texts = symbol_texts(plan.arguments, lambda base, i: f'{base}[{i}]')
     printer = _PRINTERS[numpy](texts)
     labels = output_labels(value)
@@ -104,6 +107,15 @@ def render(value, name=None, declared=None, numpy=False):
     return '\n'.join(lines) + '\n'
 
 
+def _through_formula(plan, formula, value, declared, reserved):
+    from dataclasses import replace
+
+    from .formula_plan import cheaper_plan
+
+    chosen, note = cheaper_plan(plan, formula, value, declared, reserved)
+    return replace(chosen, remarks=[note]) if note else chosen
+
+
 def _return_lines(value, outputs, numpy):
     if not outputs:
         return [f'{INDENT}return ()']
@@ -128,9 +140,10 @@ def _return_lines(value, outputs, numpy):
 
 def emit(value, name=None, declared=None, options=None):
     """The entry of the export-target table (gacalc.export.targets)."""
-    return render(value, name=name, declared=declared)
+    return render(value, name=name, declared=declared, formula=(options or {}).get('formula'))
 
 
 def emit_numpy(value, name=None, declared=None, options=None):
     """The numpy variant's entry of the export-target table."""
-    return render(value, name=name, declared=declared, numpy=True)
+    return render(value, name=name, declared=declared, numpy=True,
+                  formula=(options or {}).get('formula'))

@@ -29,16 +29,35 @@ RULE_WIDTH = 60
 
 
 def render_text(report: Report, unicode: bool = False) -> str:
+    from .naming import name_repeats, use_names
+
     lines = [f"# derived forms: {report.title}"]
     blocks = [(item, _value_lines(item, unicode)) for item in report.items]
+    # long scalars repeated across items (denominator, condition, norm) are named once
+    names = name_repeats(["\n".join(v) + "\n(" + _condition_text(item, unicode) + ")"
+                          for item, v in blocks])
+    if names:
+        blocks = [(item, [use_names(line, names) for line in v]) for item, v in blocks]
     column = _label_column(blocks)
     section = None
     for item, value_lines in blocks:
         if item.section != section:
             section = item.section
             lines.append(_rule(section, unicode))
-        lines.extend(_item_lines(item, value_lines, column, unicode))
+            if section == report.items[0].section and names:
+                lines.extend(_named_lines(names, column))
+        lines.extend(_item_lines(item, value_lines, column, unicode, names))
     return "\n".join(lines)
+
+
+def _named_lines(names, column) -> list:
+    """``D = ...`` definitions (valid input, before their first use)."""
+    out = []
+    for name, text in names:
+        line = f"{name} = {text}"
+        label = f"# where {name}: named once, used below"
+        out.extend([line.ljust(column) + label] if len(line) <= column - 2 else [label, line])
+    return out
 
 
 def _rule(section: str, unicode: bool) -> str:
@@ -59,6 +78,8 @@ def _value_lines(item: ReportItem, unicode: bool) -> list:
     from gacalc.values import kind_of
 
     value = item.value
+    if item.formula is not None:
+        return [item.formula.text(unicode)]
     if isinstance(value, str):
         return []
     if isinstance(value, tuple):
@@ -72,18 +93,37 @@ def _value_lines(item: ReportItem, unicode: bool) -> list:
     return scalar_text(value, unicode).split("\n")
 
 
-def _annotation(item: ReportItem, unicode: bool) -> str:
+def _condition_text(item: ReportItem, unicode: bool) -> str:
+    """The condition in the layout of the value texts (for naming repeats), or ''."""
+    if item.condition is None or item.condition_formula is not None:
+        return ""
+    from gacalc.printing.text import value_text
+
+    try:
+        from gacalc.algebra import Multivector
+
+        return value_text(Multivector({0: item.condition}), unicode, 10**6)
+    except (ArithmeticError, ValueError, TypeError):
+        return ""
+
+
+def _annotation(item: ReportItem, unicode: bool, names=()) -> str:
     """Note and condition of an item as one sentence (may be empty)."""
     from gacalc.printing import scalar_text
 
     parts = [item.note] if item.note else []
     if item.condition is not None:
         neq = "\u2260" if unicode else "!="
-        parts.append(f"where {scalar_text(item.condition, unicode)} {neq} 0")
+        condition = (item.condition_formula.text(unicode) if item.condition_formula is not None
+                     else scalar_text(item.condition, unicode))
+        named = dict((text, name) for name, text in names).get(_condition_text(item, unicode)) \
+            if names else None
+        parts.append(f"where {named or condition} {neq} 0")
     return "; ".join(parts)
 
 
-def _item_lines(item: ReportItem, value_lines: list, column: int, unicode: bool) -> list:
+def _item_lines(item: ReportItem, value_lines: list, column: int, unicode: bool,
+                names=()) -> list:
     """A short value with its label beside it in the label column; a verdict in words,
     or a value too long for the left column, as a block: its label line, then the value.
     A note that does not fit on the label's line follows it, indented, across the page."""
@@ -94,7 +134,7 @@ def _item_lines(item: ReportItem, value_lines: list, column: int, unicode: bool)
     else:
         first = "# " + label
     out = [first]
-    annotation = _annotation(item, unicode)
+    annotation = _annotation(item, unicode, names)
     if annotation:
         joined = first + (" \u00b7 " if unicode else " -- ") + annotation
         if len(joined) <= WIDTH:
@@ -114,7 +154,8 @@ def render_latex(report: Report, notes: bool = True) -> str:
     """One aligned block: \\text{label} & value, with notes in a third column."""
     rows = []
     for item in report.items:
-        row = r"\text{%s} & %s" % (_latex_text(item.label), _latex_value(item.value))
+        value = item.formula.latex() if item.formula is not None else _latex_value(item.value)
+        row = r"\text{%s} & %s" % (_latex_text(item.label), value)
         remark = _latex_remark(item) if notes else ""
         if remark:
             row += r" && " + remark
@@ -143,7 +184,9 @@ def _latex_remark(item: ReportItem) -> str:
     if item.note:
         parts.append(r"\text{%s}" % _latex_text(item.note))
     if item.condition is not None:
-        parts.append(r"\text{where } %s \neq 0" % latex_of(item.condition))
+        condition = (item.condition_formula.latex() if item.condition_formula is not None
+                     else latex_of(item.condition))
+        parts.append(r"\text{where } %s \neq 0" % condition)
     return r",\ ".join(parts)
 
 

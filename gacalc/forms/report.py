@@ -44,6 +44,9 @@ class ReportItem:
     note: str = ""
     section: str = ""
     condition: object = None
+    # the same value and condition as coordinate-free formulas (gacalc.forms.formula_items)
+    formula: object = None
+    condition_formula: object = None
 
     @property
     def is_text(self) -> bool:

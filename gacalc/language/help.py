@@ -51,6 +51,14 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
              "show EXPR against B  the same, relative to B\n"
              "show latex EXPR      the report in LaTeX\n"
              "  example: show rotor(e12, pi/3)"),
+    "formula": ("a value as a formula in the declared vectors: formula EXPR",
+                "formula EXPR   the value written with dot products, cross products and\n"
+                "               wedges of the declared vectors, proved equal by expanding it\n"
+                "               back (valid input); otherwise one line says why, and the\n"
+                "               components follow\n"
+                "formula auto   print every result as a formula when one is found\n"
+                "formula off    print components again (F3 in the REPL switches)\n"
+                "  example: vector a, b, c; formula a _| (b /\\ c)"),
     "against": ("compare a shown value with another: show EXPR against B",
                 "  example: show e1 + e2 against e12"),
     "as": ("the function name of emitted code", "  example: emit c a b as product"),
@@ -142,7 +150,8 @@ def _overview() -> str:
              "  EXPR   NAME = EXPR   f(x, y) = EXPR   (a trailing ';' hides the result)",
              "  scalar | vector | bivector | rotor | multivector NAME[(t)], ... [unit]",
              "  check L == R [given C = D, ...]    assume C = D, ... | assume none",
-             "  show [latex] EXPR [against B]      emit "
+             "  show [latex] EXPR [against B]      formula EXPR | formula auto | off",
+             "  emit "
              f"{'|'.join(export_targets.TARGETS)} EXPR [as NAME] [to \"file\"]",
              "  use \"file\"   save \"file\" [force]   help [NAME]",
              "functions:"]

@@ -607,6 +607,10 @@ class _StatementParser:
             forms = [f"emit {t.name} EXPR" for t in export_targets.described()]
             self.fail("emit needs a target: " + ", ".join(forms[:-1]) + " or " + forms[-1])
         self.advance()
+        components = False
+        if self.check(T.NAME, "components") and self._starts_operand(1):
+            self.advance()
+            components = True
         if self.at_end():
             self.fail(f"emit {target.value} needs a value")
         expr = self.expression()
@@ -622,7 +626,16 @@ class _StatementParser:
             self.advance()
             token = self.expect(T.STRING, 'expected a file name in quotes after \'to\': to "out.py"')
             path, path_span = token.value, token.span
-        return S.Emit(keyword.span, target.value, expr, as_name, path, path_span)
+        return S.Emit(keyword.span, target.value, expr, as_name, path, path_span, components)
+
+    def _statement_formula(self) -> S.Statement:
+        keyword = self.advance()
+        if self.at_end():
+            self.fail("formula needs a value: formula EXPR (or formula auto, formula off)")
+        if (self.check(T.NAME, "auto") or self.check(T.NAME, "off")) \
+                and self.peek(1).kind in _STATEMENT_END:
+            return S.FormulaStatement(keyword.span, None, self.advance().value)
+        return S.FormulaStatement(keyword.span, self.expression())
 
     def _path(self, statement: str) -> Token:
         token = self.peek()

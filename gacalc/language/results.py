@@ -63,18 +63,26 @@ class ValueResult(Result):
     value: object = None
     name: str | None = None
     complete: bool = True
+    formula: object = None     # a gacalc.formulas.Formula under 'formula auto', when found
 
     def __post_init__(self):
         self.kind = "value"
 
+    def _body(self, unicode: bool, indent: int) -> str:
+        from gacalc.printing.text import value_text
+
+        if self.formula is not None:
+            return self.formula.text(unicode)
+        return value_text(self.value, unicode, self.width, indent=indent)
+
     def render(self, unicode: bool = False) -> str:
-        from gacalc.printing.text import numeric_note, value_text
+        from gacalc.printing.text import numeric_note
 
         if self.name is None:
-            text = value_text(self.value, unicode, self.width)
+            text = self._body(unicode, 0)
         else:
             head = f"{self.name} = "
-            body = value_text(self.value, unicode, self.width, indent=len(head))
+            body = self._body(unicode, len(head))
             if "\n" in body and _block_text(self.value):
                 text = f"{self.name} =\n{body}"
             else:
@@ -86,6 +94,30 @@ class ValueResult(Result):
         from gacalc.export import latex_of
 
         return f"$\\displaystyle {latex_of(self.value)}$"
+
+
+@dataclass
+class FormulaResult(Result):
+    """formula EXPR: ``formula`` (gacalc.formulas.Formula, proved equal to ``value``) or
+    None with ``message`` saying why; then the text is that line and the components."""
+
+    value: object = None
+    formula: object = None
+    message: str = ""
+
+    def __post_init__(self):
+        self.kind = "formula"
+
+    @property
+    def found(self) -> bool:
+        return self.formula is not None
+
+    def render(self, unicode: bool = False) -> str:
+        from gacalc.printing.text import value_text
+
+        if self.formula is not None:
+            return self.formula.text(unicode)
+        return f"note: {self.message}\n{value_text(self.value, unicode, self.width)}"
 
 
 @dataclass

@@ -38,14 +38,14 @@ from .evaluator import State
 from .files import MAX_INPUT_CHARS, SAVE_HEADER, FileStatements, RunContext, os_reason
 from .help import topic_entry
 from .parser import iter_statements
-from .results import (CheckResult, DeclarationResult, EmitResult, FileResult, HelpResult,
-                      NoteResult, Result, ShowResult, ValueResult)
+from .results import (CheckResult, DeclarationResult, EmitResult, FileResult, FormulaResult,
+                      HelpResult, NoteResult, Result, ShowResult, ValueResult)
 from .scanner import needs_more_input
 from .statements import MIN_SIMPLIFY_BUDGET, StatementExecutors
 from .watchdog import StatementClock, StatementTimeout, statement_budget
 
 __all__ = ["Session", "Result", "ValueResult", "CheckResult", "NoteResult",
-           "DeclarationResult", "ShowResult", "EmitResult", "HelpResult", "FileResult",
+           "DeclarationResult", "ShowResult", "EmitResult", "HelpResult", "FileResult", "FormulaResult",
            "MAX_INPUT_CHARS", "SAVE_HEADER", "MIN_SIMPLIFY_BUDGET"]
 
 
@@ -73,7 +73,8 @@ class Session(StatementExecutors, FileStatements):
     relative paths of typed input resolve; default: the current directory), ``emit_dir``
     (when set, every emit writes a file there: ``to "file"`` paths resolve under it, and an
     emit without ``to`` goes to NAME.tex / .py / .c), ``statement_budget`` (wall-clock
-    seconds per statement, default 30; ``math.inf`` for none).
+    seconds per statement, default 30; ``math.inf`` for none), ``formulas`` (print every
+    result as a coordinate-free formula when one is found; ``formula auto`` / ``off``).
 
     A statement that runs out of its budget is abandoned with a GacalcLimitError; a
     simplification that runs out (of its own budget or of what the statement has left)
@@ -81,8 +82,9 @@ class Session(StatementExecutors, FileStatements):
 
     def __init__(self, *, unicode: bool = False, budget: float | None = None,
                  width: int = 78, base_dir: str | None = None, emit_dir: str | None = None,
-                 statement_budget: float | None = None):
+                 statement_budget: float | None = None, formulas: bool = False):
         self.unicode = unicode
+        self.formulas = formulas      # 'formula auto': results print as formulas when found
         self.budget = DEFAULT_BUDGET if budget is None else budget
         self.statement_budget = (DEFAULT_STATEMENT_BUDGET if statement_budget is None
                                  else statement_budget)

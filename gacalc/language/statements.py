@@ -89,8 +89,13 @@ class StatementExecutors:
         if not complete:
             results.append(self._note(statement, "simplification ran out of time: the value "
                                       "is correct but not fully simplified"))
+        formula = None
+        if self.formulas:          # the 'formula auto' setting (gacalc.language.formula_support)
+            from .formula_support import formula_outcome
+
+            formula = formula_outcome(value, state, self._clock).formula
         results.append(self._result(ValueResult, statement, value=value, name=name,
-                                    complete=complete))
+                                    complete=complete, formula=formula))
 
     def _do_FunctionDef(self, statement, state, results, context):
         name = statement.name
@@ -249,9 +254,22 @@ class StatementExecutors:
 
             report = add_kinematics(report, value, _time_symbols(state), conditions,
                                     self._simplify_budget())
+        from .formula_support import state_variables
+
+        variables, others = state_variables(state)
+        if variables:
+            from gacalc.forms.formula_items import with_formulas
+
+            report = with_formulas(report, variables, others, conditions,
+                                   self._clock.within(None, MIN_SIMPLIFY_BUDGET))
         text = report.to_latex() if statement.latex else report.to_text(self.unicode)
         results.append(self._result(ShowResult, statement, report=report, report_text=text,
                                     latex=statement.latex))
+
+    def _do_FormulaStatement(self, statement, state, results, context):
+        from .formula_support import execute_formula
+
+        execute_formula(self, statement, state, results)
 
     def _do_Emit(self, statement, state, results, context):
         value = self._evaluate(statement.expr, state, results, statement)
@@ -263,13 +281,20 @@ class StatementExecutors:
             name = statement.expr.name
         declared = dict(state.declarations)
         payload = kind_of(value).export(value)
+        options = {}
+        if not statement.components:      # a proved formula, unless components are asked for
+            from .formula_support import formula_outcome
+
+            formula = formula_outcome(value, state, self._clock).formula
+            if formula is not None:
+                options["formula"] = formula
         if statement.target != "latex":    # code takes numbers: r1(t) is the input r1
             from .dependent import inputs_for_emit
 
             payload, declared = inputs_for_emit(payload, state, declared)
         try:
             code = export.emit(statement.target, payload, name=name,
-                               declared=declared, options={})
+                               declared=declared, options=options)
         except export.ExportError as error:
             raise GacalcError(f"emit {statement.target}: {error}", statement.span) from None
         path = self._write_emitted(statement, name, code, context)

@@ -180,12 +180,21 @@ class Show(Statement):
 
 
 @dataclass
+class FormulaStatement(Statement):
+    """formula EXPR (``expr`` set), or the setting: formula auto / formula off (``mode``)."""
+
+    expr: Node | None
+    mode: str | None = None    # 'auto' or 'off' for the setting, None for formula EXPR
+
+
+@dataclass
 class Emit(Statement):
     target: str               # one of tokens.EMIT_TARGETS
     expr: Node
     as_name: str | None
     path: str | None
     path_span: Span | None = field(default=None, repr=False, compare=False)
+    components: bool = False  # emit TARGET components EXPR: no formula, the components
 
 
 @dataclass

@@ -102,14 +102,14 @@ OPERATOR_SPELLINGS: dict[str, tuple[str, ...]] = {
 
 # Reserved words: never names.
 KEYWORDS = ("check", "given", "assume", "show", "against", "emit", "as", "to",
-            "use", "save", "help")
+            "use", "save", "help", "formula")
 # Declarations: reserved words, except that "rotor" followed by "(" is the function.
 DECLARATION_KINDS = ("scalar", "vector", "bivector", "rotor", "multivector")
 # The export targets of gacalc.export.targets (the parser reads that table itself, so a
 # target registered later is accepted too).
 EMIT_TARGETS = tuple(_export_targets.TARGETS)
 # Words with a meaning inside one statement only; elsewhere they are ordinary names.
-SOFT_KEYWORDS = ("unit", "none", "force", *EMIT_TARGETS)
+SOFT_KEYWORDS = ("unit", "none", "force", "auto", "off", "components", *EMIT_TARGETS)
 CONSTANTS = ("pi", "I")
 
 GREEK_LETTERS = {

@@ -145,7 +145,17 @@ def multivector_text(mv, unicode: bool = False, width: int = DEFAULT_WIDTH,
                      indent: int = 0) -> str:
     """The multivector as text that reads back as the same value (see module docstring).
 
-    ``indent`` is the width of text already on the first line (``x = `` for example)."""
+    ``indent`` is the width of text already on the first line (``x = `` for example).
+    Components that share a denominator are written over it once:
+    ``((a2*b3 - a3*b2)*e23 + ...)/(a1^2*b2^2 + ...)``."""
+    shared = mv.shared_denominator()
+    if shared is not None:
+        numerator, denominator = shared
+        body = multivector_text(numerator, unicode, width, indent + 1)
+        below = multivector_text(denominator, unicode, 10**6)
+        if is_sum(below) or not re.fullmatch(r"[\w.]+", below):
+            below = f"({below})"
+        return f"({body})/{below}"
     terms = _terms(mv, unicode)
     if not terms:
         return "0"
