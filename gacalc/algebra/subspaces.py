@@ -18,7 +18,8 @@ Conventions (stated in README):
 
 Each function takes the scalar side conditions in force (sympy Exprs equal to zero) and
 returns, beside its value, the conditions (sympy Exprs that must be nonzero) under which
-the value holds when a vanishing test could not be decided.
+the value holds when a case distinction depends on the values of symbols (the way the
+inverse states its condition).
 """
 
 from __future__ import annotations
@@ -26,7 +27,7 @@ from __future__ import annotations
 import sympy
 
 from .context import current
-from .multivector import AlgebraError, Multivector, NotInvertibleError, _condition_text_expr
+from .multivector import AlgebraError, Multivector, _condition_text_expr
 from .versors import project, versor_inverse
 
 _I = Multivector({7: 1})
@@ -53,8 +54,10 @@ def nonzero_condition(mv: Multivector):
 
 
 def _note(conditions_out: list, mv: Multivector):
+    """Record where mv is nonzero when that depends on the symbols (a test that is not
+    identically zero can still vanish for some values of them)."""
     condition = nonzero_condition(mv)
-    if condition is not None and not condition.is_number:
+    if condition is not None and not condition.is_number and condition not in conditions_out:
         conditions_out.append(condition)
 
 
@@ -104,18 +107,15 @@ def join(a: Multivector, b: Multivector, conditions=()):
 
 def _join(a, ga, b, gb, conditions, out):
     wedge = a.outer(b)
-    verdict = _is_zero(wedge, conditions)
-    if verdict is not True:
-        if verdict is None:
-            _note(out, wedge)
+    if _is_zero(wedge, conditions) is not True:
+        _note(out, wedge)           # symbolic: holds where the wedge does not vanish
         return wedge
     small, big = (a, b) if ga < gb else (b, a)
     rejection = small - project(small, big)
-    verdict = _is_zero(rejection, conditions)
-    if verdict is True:
+    if _is_zero(rejection, conditions) is True:
+        _note(out, big)
         return big
-    if verdict is None:
-        _note(out, rejection)
+    _note(out, rejection)
     # in 3-D the only case left: two different planes, which together span all of space
     return _I
 
@@ -152,11 +152,9 @@ def factor(b: Multivector, conditions=()):
         return [_BASIS_VECTORS[0], _BASIS_VECTORS[1], _BASIS_VECTORS[2] * blade[7]], out
     for e in _BASIS_VECTORS:
         shadow = e.lc(blade)               # zero exactly when e is orthogonal to the plane
-        verdict = _is_zero(shadow, conditions)
-        if verdict is True:
+        if _is_zero(shadow, conditions) is True:
             continue
-        if verdict is None:
-            _note(out, shadow)
+        _note(out, shadow)
         first = project(e, blade)
         second = versor_inverse(first, "factor", "vector") * blade
         return [first, second.grade(1)], out
@@ -196,8 +194,8 @@ def reciprocal(a: Multivector, b: Multivector, c: Multivector, conditions=()):
     condition = _condition_text_expr(current().simplifier.reduce(volume_mv.coefs()[0])) \
         if not volume_mv.is_zero() else sympy.Integer(0)
     if verdict is True:
-        raise NotInvertibleError("not a frame: a /\\ b /\\ c = 0 (the three vectors lie in "
-                                 "one plane), so there is no reciprocal frame", condition)
+        raise AlgebraError("not a frame: a /\\ b /\\ c = 0 (the three vectors lie in one "
+                           "plane), so there is no reciprocal frame")
     out = [] if condition.is_number else [condition]
     frame = [(b.outer(c) * _I_INVERSE) / volume, (c.outer(a) * _I_INVERSE) / volume,
              (a.outer(b) * _I_INVERSE) / volume]

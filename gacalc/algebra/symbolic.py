@@ -31,8 +31,24 @@ def component_symbols(kind: str, name: str) -> list:
     return [sympy.Symbol(name + s, real=True) for s in suffixes]
 
 
+# matrix3 M -> the 3x3 matrix of entries M11 M12 M13 M21 ... M33 (row, column)
+MATRIX_KINDS = {"matrix3": 3}
+
+
+def matrix_entry_names(kind: str, name: str) -> list:
+    n = MATRIX_KINDS[kind]
+    return [f"{name}{i}{j}" for i in range(1, n + 1) for j in range(1, n + 1)]
+
+
 def symbolic(kind: str, name: str, unit: bool = False):
-    """(Multivector, conditions): conditions are sympy Exprs equal to zero on the declared set."""
+    """(value, conditions): a Multivector (a sympy Matrix for the matrix kinds); conditions
+    are sympy Exprs equal to zero on the declared set."""
+    if kind in MATRIX_KINDS:
+        if unit:
+            raise AlgebraError("'unit' does not apply to a matrix")
+        n = MATRIX_KINDS[kind]
+        entries = [sympy.Symbol(e, real=True) for e in matrix_entry_names(kind, name)]
+        return sympy.Matrix(n, n, entries), []
     indices, _ = KIND_COMPONENTS.get(kind, (None, None))
     if indices is None:
         raise AlgebraError(f"unknown kind {kind!r}")

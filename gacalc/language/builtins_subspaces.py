@@ -39,9 +39,9 @@ def _note_conditions(ctx, what: str, conditions):
 
 
 def _as_list(ctx, values):
-    from gacalc.values.sequence import make_list
+    from gacalc.values.sequence import value_list
 
-    return make_list(values)
+    return value_list(values)
 
 
 def _linear_map_argument(ctx, index: int):

@@ -76,6 +76,10 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
     "multivector": ("declare general multivectors: multivector M",
                     "multivector M   components M0 M1 M2 M3 M23 M31 M12 M123\n"
                     "  example: multivector M"),
+    "matrix3": ("declare symbolic 3x3 matrices: matrix3 M",
+                "matrix3 M   entries M11 M12 M13 M21 ... M33 (row, column); linmap(M) is\n"
+                "            the linear map with that matrix\n"
+                "  example: matrix3 M"),
     "unit": ("after a declaration: the declared values have norm 1",
              "  example: vector n unit"),
     "operators": ("operators and their precedence", _OPERATORS_HELP),
@@ -126,7 +130,7 @@ def _overview() -> str:
         categories.setdefault(BUILTINS[name].category, []).append(name)
     lines = ["statements:",
              "  EXPR   NAME = EXPR   f(x, y) = EXPR   (a trailing ';' hides the result)",
-             "  scalar | vector | bivector | rotor | multivector NAME, ... [unit]",
+             "  scalar | vector | bivector | rotor | multivector | matrix3 NAME, ... [unit]",
              "  check L == R [given C = D, ...]    assume C = D, ... | assume none",
              "  show [latex] EXPR [against B]      emit "
              f"{'|'.join(export_targets.TARGETS)} EXPR [as NAME] [to \"file\"]",

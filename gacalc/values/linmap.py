@@ -35,7 +35,10 @@ class LinearMapKind(ValueKind):
         one_line = f"linmap({', '.join(rows)})"
         if len(one_line) + indent <= width:
             return one_line
-        # one row per line: a line ending in ',' continues, so this still reads back
+        # one row per line (or one entry per line when a row is still too wide): a line
+        # ending in ',' continues, so this still reads back
+        if max(len(row) for row in rows) + indent + 8 > width:
+            rows = [scalar_text(e, unicode) for e in value.matrix]
         return "linmap(" + ",\n       ".join(rows) + ")"
 
     def scalars(self, value) -> list:
@@ -116,7 +119,9 @@ class LinearMapKind(ValueKind):
                  ReportItem("determinant", det, "f(I) = det(f) I", MEASURES)]
         orthogonal = is_orthogonal(f, simplifier.conditions)
         verdict = {True: "yes", False: "no", None: "undecided"}[orthogonal]
-        items.append(ReportItem("orthogonal", verdict, "f^T f = 1", KIND))
+        note = "f^T f = 1" if orthogonal is not False or not f.matrix.free_symbols \
+            else "f^T f = 1 does not hold for all values of the symbols"
+        items.append(ReportItem("orthogonal", verdict, note, KIND))
         special = None
         if orthogonal is True:
             special = simplifier.zero(det - 1)
