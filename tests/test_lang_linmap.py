@@ -183,3 +183,28 @@ def test_factor_and_reciprocal_return_lists_that_read_back():
                           " == e1 /\\ e2").outcome == "holds"
     assert _last(session, "check factor(e1 /\\ (e1 + e2))[1] . factor(e1 /\\ (e1 + e2))[2]"
                           " == 0").outcome == "holds"
+
+
+def test_rotation_map_of_a_symbolic_rotor_reports_the_rotor():
+    session = Session()
+    ok(session, "rotor R\nf = linmap(matrix(R))")
+    report = _last(session, "show f").report
+    # under the unit-rotor condition f is a rotation with det 1 (DESIGN.md: matrix(R))
+    assert report["determinant"] == 1 and report["special orthogonal"] == "yes"
+    assert _last(session, f"check {report.item('rotor').value} == R").outcome == "holds"
+    assert _last(session, "check f(e1 /\\ e2) == R e12 R~").outcome == "holds"
+
+
+def test_reciprocal_frame_is_the_inverse_transpose_of_the_frame_matrix():
+    # the reciprocal lattice: columns of inv(A).T (a handbook fact, see test_subspaces)
+    session = Session()
+    ok(session, "vector a, b, c\nF = reciprocal(a, b, c)")
+    check = _last(session, "check linmap(F[1], F[2], F[3]) == adjoint(inverse(linmap(a, b, c)))")
+    assert check.outcome == "holds"
+
+
+def test_is_blade_of_a_symbolic_multivector_says_it_is_generic():
+    session = Session()
+    results = ok(session, "multivector M\nis_blade(M)")
+    assert results[-1].value == 0
+    assert any("general values" in n for n in _notes(results))

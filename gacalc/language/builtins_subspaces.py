@@ -60,11 +60,15 @@ def _linear_map_argument(ctx, index: int):
 def _is_blade(ctx, a):
     from gacalc.algebra import Multivector
 
-    answer, undecided = _subspaces().is_blade(ctx.multivector(0), ctx.conditions())
+    value = ctx.multivector(0)
+    answer, undecided = _subspaces().is_blade(value, ctx.conditions())
     if undecided and not answer:
         grades = ", ".join(str(k) for k in undecided)
         ctx.note(f"is_blade took the parts of grades {grades} as nonzero (it could not "
                  "decide whether they vanish)")
+    elif not answer and value.free_symbols:
+        ctx.note("is_blade answers for general values of the symbols (special values "
+                 "can make all but one grade vanish)")
     return Multivector.scalar(1 if answer else 0)
 
 
