@@ -208,3 +208,14 @@ def test_is_blade_of_a_symbolic_multivector_says_it_is_generic():
     results = ok(session, "multivector M\nis_blade(M)")
     assert results[-1].value == 0
     assert any("general values" in n for n in _notes(results))
+
+
+def test_latex_of_a_linear_map_and_its_report_renders_in_katex():
+    from test_export_latex import assert_katex_accepts
+
+    session = Session()
+    ok(session, "matrix3 M")
+    texts = [_last(session, "show latex linmap(e2, -e1, e3)").report_text,
+             _last(session, "show latex linmap(M)").report_text,
+             _last(session, "emit latex inverse(linmap(M))").code]
+    assert_katex_accepts(texts)
