@@ -36,15 +36,35 @@ def component_symbols(kind: str, name: str, depends: tuple = ()) -> list:
 
 
 def component_names(kind: str, name: str) -> list:
-    """The names of the components (a1 a2 a3 for vector a)."""
+    """The names of the components (a1 a2 a3 for vector a; M11 ... M33 for matrix3 M)."""
+    if kind in MATRIX_KINDS:
+        return matrix_entry_names(kind, name)
     return [name + s for s in KIND_COMPONENTS[kind][1]]
 
 
+# matrix3 M -> the 3x3 matrix of entries M11 M12 M13 M21 ... M33 (row, column)
+MATRIX_KINDS = {"matrix3": 3}
+
+
+def matrix_entry_names(kind: str, name: str) -> list:
+    n = MATRIX_KINDS[kind]
+    return [f"{name}{i}{j}" for i in range(1, n + 1) for j in range(1, n + 1)]
+
+
 def symbolic(kind: str, name: str, unit: bool = False, depends: tuple = ()):
-    """(Multivector, conditions): conditions are sympy Exprs equal to zero on the declared set.
+    """(value, conditions): a Multivector (a sympy Matrix for the matrix kinds); conditions
+    are sympy Exprs equal to zero on the declared set.
 
     ``depends``: real scalar symbols the components are functions of; a unit condition
     then comes with its first derivatives (R R~ = 1 gives <dR/dt R~> = 0)."""
+    if kind in MATRIX_KINDS:
+        if unit:
+            raise AlgebraError("'unit' does not apply to a matrix")
+        if depends:
+            raise AlgebraError("a declared matrix cannot depend on a variable")
+        n = MATRIX_KINDS[kind]
+        entries = [sympy.Symbol(e, real=True) for e in matrix_entry_names(kind, name)]
+        return sympy.Matrix(n, n, entries), []
     indices, _ = KIND_COMPONENTS.get(kind, (None, None))
     if indices is None:
         raise AlgebraError(f"unknown kind {kind!r}")

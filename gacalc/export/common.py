@@ -24,6 +24,9 @@ KIND_SUFFIXES = {kind: suffixes for kind, (_, suffixes) in KIND_COMPONENTS.items
                  if kind != 'scalar'}
 KIND_BASIS = {kind: tuple(BASIS_NAMES[index] for index in indices)
               for kind, (indices, _) in KIND_COMPONENTS.items() if kind != 'scalar'}
+# a declared 3x3 matrix (matrix3 M) is passed as its nine entries, row by row
+KIND_SUFFIXES['matrix3'] = tuple(f'{i}{j}' for i in (1, 2, 3) for j in (1, 2, 3))
+KIND_BASIS['matrix3'] = ('row by row',)
 KINDS = tuple(KIND_SUFFIXES) + ('scalar',)
 
 DEFAULT_NAME = 'gacalc_value'
@@ -163,8 +166,9 @@ class Argument:
                     else f"{self.code_name}: scalar {self.name}")
         parts = ', '.join(symbol.name for symbol in self.symbols)
         basis = ', '.join(KIND_BASIS[self.kind])
+        where = f'on ({basis})' if self.kind in KIND_COMPONENTS else basis
         return (f'{self.code_name}[{len(self.symbols)}]: {self.kind} {self.name} = '
-                f'({parts}) on ({basis})')
+                f'({parts}) {where}')
 
 
 def _free_code_name(name, taken):

@@ -188,11 +188,11 @@ def _norm2(ctx, a):
     return _scalar_mv(ctx.multivector(0).norm2())
 
 
-@builtin("inverse(A)", "inverse of any invertible multivector (also A^-1)",
-         "inverse(1 + e1 + e12)", "norms",
+@builtin("inverse(A)", "inverse of any invertible multivector, matrix or linear map "
+         "(also A^-1)", "inverse(1 + e1 + e12)", "norms",
          chain=(0, 0, 0, 0))
 def _inverse(ctx, a):
-    return ctx.inverse(ctx.multivector(0), 0)
+    return ctx.inverse(a, 0)    # the value's kind computes it
 
 
 # Products --------------------------------------------------------------------------
@@ -271,17 +271,18 @@ def _rotate(ctx, r, x):
     return _rotors().rotate(ctx.multivector(0), ctx.multivector(1), ctx.conditions())
 
 
-@builtin("angle(R)", "rotation angle of a rotor; angle(a, b) is the angle between vectors",
-         "angle(rotor(e12, pi/3))", "rotors", min_args=1, max_args=2,
+@builtin("angle(R)", "rotation angle of a rotor; angle(A, B) is the angle between lines "
+         "(vectors) and planes (bivectors)", "angle(rotor(e12, pi/3))", "rotors",
+         min_args=1, max_args=2,
          chain=(0, 0, 0))
 def _angle(ctx, r, b=None):
     first = ctx.multivector(0)
     if b is None:
         return _scalar_mv(_rotors().rotor_angle(first, ctx.conditions()))
-    a, b = ctx.vector(0), ctx.vector(1)
-    sympy = _sympy()
-    cosine = a.scalar_product(b).scalar_part() / sympy.sqrt(a.norm2() * b.norm2())
-    return _scalar_mv(sympy.acos(cosine))
+    from gacalc.algebra import subspaces
+
+    # two lines or two planes: [0, pi]; a line and a plane: [-pi/2, pi/2] (README)
+    return _scalar_mv(subspaces.angle(first, ctx.multivector(1), ctx.conditions()))
 
 
 @builtin("axis(R)", "unit rotation axis of a rotor (right-hand rule)",
@@ -467,5 +468,6 @@ def _ln(ctx, x):
 
 
 from . import builtins_calculus  # noqa: E402,F401  (diff, nabla, jacobian, ...)
+from . import builtins_subspaces  # noqa: E402,F401  (meet, join, factor, frames, linmap)
 
 BUILTIN_NAMES: tuple[str, ...] = tuple(sorted(BUILTINS))

@@ -1,7 +1,8 @@
 """Evaluation of expression trees to values, over a session state.
 
 Values are Multivectors (scalars are grade-0 multivectors), sympy matrices (from
-``matrix`` and ``pauli``) and sympy quaternions (from ``quaternion``).
+``matrix`` and ``pauli``), sympy quaternions (from ``quaternion``) and linear maps (from
+``linmap``); see gacalc.values.
 
 Names resolve, in order: parameters of the function being evaluated (lexical: a
 function body never sees its caller's parameters), the session's names, ``ans``, the
@@ -223,23 +224,29 @@ class Evaluator:
         return total
 
     def multiply(self, left, right, span: Span):
-        """Two values of one kind multiply as that kind says; a scalar scales any value."""
+        """Two values of one kind multiply as that kind says; a value of another kind is
+        first offered to the left one's act_on (a linear map applied to a multivector);
+        otherwise a scalar scales any value."""
         left_kind, right_kind = kind_of(left), kind_of(right)
         result = None
         if left_kind is not None and left_kind is right_kind:
             result = left_kind.multiply(left, right, span)
         elif left_kind is not None and right_kind is not None:
-            factor = left_kind.as_scalar(left)
-            if factor is not None:
-                result = right_kind.scale(right, factor)
-            else:
-                factor = right_kind.as_scalar(right)
-                if factor is not None:
-                    result = left_kind.scale(left, factor)
+            result = left_kind.act_on(self, left, right, span)
+            if result is None:
+                result = self._scaled(left_kind, left, right_kind, right)
         if result is None:
             raise GacalcTypeError(f"cannot multiply {describe_value(left)} by "
                                   f"{describe_value(right)}", span)
         return result
+
+    @staticmethod
+    def _scaled(left_kind, left, right_kind, right):
+        factor = left_kind.as_scalar(left)
+        if factor is not None:
+            return right_kind.scale(right, factor)
+        factor = right_kind.as_scalar(right)
+        return None if factor is None else left_kind.scale(left, factor)
 
     def divide(self, left, right, span: Span, whole: Span):
         return self._kind(right).divide(self, left, right, span)

@@ -98,6 +98,10 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
                  "              d/dt (R x R~) = cross(w, R x R~)\n"
                  "series(X, s, s0, n)  Taylor polynomial through (s - s0)^n\n"
                  "  example: scalar w, t; angular_velocity(rotor(e12, w t), t)"),
+    "matrix3": ("declare symbolic 3x3 matrices: matrix3 M",
+                "matrix3 M   entries M11 M12 M13 M21 ... M33 (row, column); linmap(M) is\n"
+                "            the linear map with that matrix\n"
+                "  example: matrix3 M"),
     "unit": ("after a declaration: the declared values have norm 1",
              "  example: vector n unit"),
     "operators": ("operators and their precedence", _OPERATORS_HELP),
@@ -148,7 +152,7 @@ def _overview() -> str:
         categories.setdefault(BUILTINS[name].category, []).append(name)
     lines = ["statements:",
              "  EXPR   NAME = EXPR   f(x, y) = EXPR   (a trailing ';' hides the result)",
-             "  scalar | vector | bivector | rotor | multivector NAME[(t)], ... [unit]",
+             "  scalar | vector | bivector | rotor | multivector | matrix3 NAME[(t)], ... [unit]",
              "  check L == R [given C = D, ...]    assume C = D, ... | assume none",
              "  show [latex] EXPR [against B]      formula EXPR | formula auto | off",
              "  emit "

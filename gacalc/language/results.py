@@ -183,7 +183,9 @@ class DeclarationResult(Result):
 
         lines = []
         for name, value in self.values.items():
-            lines.append(f"{self.declared_kind} {name} = {value_text(value, unicode, 10**6)}")
+            text = value_text(value, unicode, 10**6)
+            joint = "\n" if "\n" in text else " "     # a matrix's rows start below
+            lines.append(f"{self.declared_kind} {name} ={joint}{text}")
         for condition in self.conditions:
             lines.append(f"  with {condition.text}")
         return "\n".join(lines)

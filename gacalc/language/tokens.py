@@ -104,7 +104,7 @@ OPERATOR_SPELLINGS: dict[str, tuple[str, ...]] = {
 KEYWORDS = ("check", "given", "assume", "show", "against", "emit", "as", "to",
             "use", "save", "help", "formula")
 # Declarations: reserved words, except that "rotor" followed by "(" is the function.
-DECLARATION_KINDS = ("scalar", "vector", "bivector", "rotor", "multivector")
+DECLARATION_KINDS = ("scalar", "vector", "bivector", "rotor", "multivector", "matrix3")
 # The export targets of gacalc.export.targets (the parser reads that table itself, so a
 # target registered later is accepted too).
 EMIT_TARGETS = tuple(_export_targets.TARGETS)

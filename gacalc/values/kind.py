@@ -36,6 +36,11 @@ class ValueKind:
         """left * right, both of this kind."""
         return None
 
+    def act_on(self, evaluator, left, right, span):
+        """left * right for a right operand of another kind, asked of the kind of left
+        before any scaling (a linear map applied to a multivector); None: not defined."""
+        return None
+
     def as_scalar(self, value):
         """The value as a sympy scalar when it is one (it then scales other kinds)."""
         return None
