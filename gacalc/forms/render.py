@@ -59,7 +59,7 @@ def _value_lines(item: ReportItem, unicode: bool) -> list:
     from gacalc.values import kind_of
 
     value = item.value
-    if isinstance(value, str):
+    if isinstance(value, str) or item.omitted:
         return []
     if isinstance(value, tuple):
         line = "# " + quaternion_text(sympy.Quaternion(*value), unicode)
@@ -76,8 +76,12 @@ def _annotation(item: ReportItem, unicode: bool) -> str:
     """Note and condition of an item as one sentence (may be empty)."""
     from gacalc.printing import scalar_text
 
+    if item.omitted:
+        return item.omitted
     parts = [item.note] if item.note else []
-    if item.condition is not None:
+    if item.condition_omitted:
+        parts.append(item.condition_omitted)
+    elif item.condition is not None:
         neq = "\u2260" if unicode else "!="
         parts.append(f"where {scalar_text(item.condition, unicode)} {neq} 0")
     return "; ".join(parts)
@@ -87,7 +91,8 @@ def _item_lines(item: ReportItem, value_lines: list, column: int, unicode: bool)
     """A short value with its label beside it in the label column; a verdict in words,
     or a value too long for the left column, as a block: its label line, then the value.
     A note that does not fit on the label's line follows it, indented, across the page."""
-    label = item.label + (f": {item.value}" if item.is_text else "")
+    label = item.label + (f": {item.value}" if item.is_text else
+                          ": omitted" if item.omitted else "")
     beside = len(value_lines) == 1 and len(value_lines[0]) <= column - 2
     if beside:
         first = value_lines[0].ljust(column) + "# " + label
@@ -114,7 +119,8 @@ def render_latex(report: Report, notes: bool = True) -> str:
     """One aligned block: \\text{label} & value, with notes in a third column."""
     rows = []
     for item in report.items:
-        row = r"\text{%s} & %s" % (_latex_text(item.label), _latex_value(item.value))
+        value = "omitted" if item.omitted else item.value
+        row = r"\text{%s} & %s" % (_latex_text(item.label), _latex_value(value))
         remark = _latex_remark(item) if notes else ""
         if remark:
             row += r" && " + remark
@@ -139,10 +145,14 @@ def _latex_value(value) -> str:
 def _latex_remark(item: ReportItem) -> str:
     from gacalc.export import latex_of
 
+    if item.omitted:
+        return r"\text{%s}" % _latex_text(item.omitted)
     parts = []
     if item.note:
         parts.append(r"\text{%s}" % _latex_text(item.note))
-    if item.condition is not None:
+    if item.condition_omitted:
+        parts.append(r"\text{%s}" % _latex_text(item.condition_omitted))
+    elif item.condition is not None:
         parts.append(r"\text{where } %s \neq 0" % latex_of(item.condition))
     return r",\ ".join(parts)
 

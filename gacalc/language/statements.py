@@ -230,7 +230,8 @@ class StatementExecutors:
         conditions = [c.expr for c in relevant_conditions(state.conditions(), values)]
         report = build_report(value, session=self, against=against, conditions=conditions,
                               deadline=self._clock.within(None, MIN_SIMPLIFY_BUDGET),
-                              call_seconds=float(self.budget))
+                              call_seconds=float(self.budget),
+                              source=S.unparse(statement.expr))
         text = report.to_latex() if statement.latex else report.to_text(self.unicode)
         results.append(self._result(ShowResult, statement, report=report, report_text=text,
                                     latex=statement.latex))
