@@ -23,7 +23,8 @@ def _show(session, text):
 
 
 def test_a_section_out_of_time_is_named_with_the_statements_for_it(monkeypatch):
-    monkeypatch.setattr(report_module, "SECTION_SECONDS", 0.0)
+    monkeypatch.setattr(report_module, "SECTION_SECONDS", 1e-9)
+    monkeypatch.setattr(report_module, "INVERSE_SECONDS", 1e-9)
     s = Session()
     s.run("vector a, b")
     shown = _show(s, "show a /\\ b")
@@ -32,6 +33,15 @@ def test_a_section_out_of_time_is_named_with_the_statements_for_it(monkeypatch):
         assert f"# {section}: omitted" in text
         assert hint in text
     assert not shown.report.complete
+
+
+def test_library_reports_have_no_section_limit(monkeypatch):
+    # build_report without section_seconds: the result does not depend on the machine
+    monkeypatch.setattr(report_module, "SECTION_SECONDS", 1e-9)
+    monkeypatch.setattr(report_module, "INVERSE_SECONDS", 1e-9)
+    r, _ = symbolic("rotor", "R")
+    report = report_module.build_report(r)
+    assert not any(item.value == "omitted" for item in report.items)
 
 
 def test_long_items_are_named_but_kept_in_the_report(monkeypatch):

@@ -29,12 +29,15 @@ GRADE_LABELS = {0: "scalar part", 1: "vector part", 2: "bivector part", 3: "triv
 QUATERNION_NOTE = "Hamilton: i = -e23, j = -e31, k = -e12"
 
 REPORT_BUDGET = 30.0    # seconds for a whole report made without a session's deadline
-# Each section of a report (value, involutions, measures, classification and forms) gets
-# this much time; past it the section is named with one line saying how to get its forms
-# one by one.  Measured on 2 cores: every section of the reports in the test suite and in
-# scripts/bench.py's show cases takes under 0.1 s, except those of values with hundreds
-# of terms, which the limit is for.
-SECTION_SECONDS = 0.4
+# In a session's show, each section of the report (value, involutions, measures,
+# classification and forms) gets SECTION_SECONDS and the inverse, the costly measure,
+# INVERSE_SECONDS of its section; past it the section is named with one line saying how
+# to get its forms one by one.  Measured on 2 cores, unloaded: the slowest section of the
+# reports in the test suite (the classification of a symbolic rotor without its unit
+# condition) takes 0.25 s.  build_report without section_seconds (library use, tests)
+# has no per-section limit, so its result never depends on the machine's load.
+SECTION_SECONDS = 1.0
+INVERSE_SECONDS = 0.5
 # An item with more terms than this (more than a screen of text) is named, not printed.
 ITEM_TERMS = 160
 
@@ -131,6 +134,7 @@ class _Simplifier:
         from gacalc.simplify import DEFAULT_BUDGET, Budget
 
         self.source = "X"      # the shown expression, for the hints of omitted items
+        self.section_seconds = None   # each section's limit (None: only the deadline)
         self.conditions = tuple(conditions or ())
         self.complete = True
         self.deadline = deadline if deadline is not None else Budget(REPORT_BUDGET)
@@ -197,7 +201,7 @@ def _condition(e, s: _Simplifier):
 
 
 def build_report(value, session=None, against=None, conditions=(), deadline=None,
-                 call_seconds=None, source=None) -> Report:
+                 call_seconds=None, source=None, section_seconds=None) -> Report:
     """The derived forms of value (optionally relative to the blade `against`).
 
     value: Multivector, a scalar (int, Fraction, sympy Expr), a sympy Matrix or a
@@ -212,6 +216,7 @@ def build_report(value, session=None, against=None, conditions=(), deadline=None
 
     s = _Simplifier(conditions, deadline, call_seconds)
     s.source = source or "X"
+    s.section_seconds = section_seconds
     kind = kind_of(value)
     if kind is None:
         value = _as_multivector(value)
@@ -304,14 +309,16 @@ class _Builder:
     # -- sections under their own budget ---------------------------------------------
 
     def _section(self, section: str, compute, label: str | None = None,
-                 hint: str | None = None):
+                 hint: str | None = None, share: float = 1.0):
         """compute() under SECTION_SECONDS (and the report's deadline); on time-out its
         items are replaced by one line naming the section and how to get its forms."""
         from gacalc.simplify.budget import BudgetExceeded, time_limit
 
         s = self.s
+        if s.section_seconds is None:
+            return compute()
         outer = s.deadline
-        budget = outer.within(SECTION_SECONDS)
+        budget = outer.within(s.section_seconds * share)
         start = len(self.items)
         s.deadline = budget
         try:
@@ -321,7 +328,7 @@ class _Builder:
             del self.items[start:]
             hint = (hint or _SECTION_HINTS[section]).format(*[s.source] * 4)
             self.add(section, label or section, "omitted",
-                     f"took more than {SECTION_SECONDS:g} s; {hint}")
+                     f"took more than {s.section_seconds * share:g} s; {hint}")
             s.complete = False
             return None
         finally:
@@ -388,7 +395,8 @@ class _Builder:
         self.add(MEASURES, "norm2", self.norm2, "<X X~>")
         self.add(MEASURES, "norm", sympy.sqrt(self.norm2))
         # the inverse is the costly measure: its own budget, so the others still show
-        self._section(MEASURES, self._inverse, "inverse", "inverse({}) computes it")
+        self._section(MEASURES, self._inverse, "inverse", "inverse({}) computes it",
+                      INVERSE_SECONDS / SECTION_SECONDS)
         self.add(MEASURES, "dual", x.dual(), "X I^-1")
 
     def _parts(self) -> _Parts:

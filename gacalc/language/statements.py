@@ -223,6 +223,7 @@ class StatementExecutors:
         if statement.against is not None:
             against = self._evaluate(statement.against, state, results, statement)
         from gacalc.forms import build_report
+        from gacalc.forms.report import SECTION_SECONDS
 
         values = [v for v in (value, against) if v is not None]
         for shown in values:       # the report multiplies the value with itself (norms...)
@@ -231,7 +232,8 @@ class StatementExecutors:
         report = build_report(value, session=self, against=against, conditions=conditions,
                               deadline=self._clock.within(None, MIN_SIMPLIFY_BUDGET),
                               call_seconds=float(self.budget),
-                              source=S.unparse(statement.expr))
+                              source=S.unparse(statement.expr),
+                              section_seconds=SECTION_SECONDS)
         text = report.to_latex() if statement.latex else report.to_text(self.unicode)
         results.append(self._result(ShowResult, statement, report=report, report_text=text,
                                     latex=statement.latex))
