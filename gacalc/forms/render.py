@@ -80,7 +80,7 @@ def _value_lines(item: ReportItem, unicode: bool) -> list:
     value = item.value
     if item.formula is not None:
         return [item.formula.text(unicode)]
-    if isinstance(value, str):
+    if isinstance(value, str) or _omitted(item):
         return []
     if isinstance(value, tuple):
         line = "# " + quaternion_text(sympy.Quaternion(*value), unicode)
@@ -91,6 +91,11 @@ def _value_lines(item: ReportItem, unicode: bool) -> list:
     if kind is not None:
         return kind.report_lines(value, unicode, WIDTH)
     return scalar_text(value, unicode).split("\n")
+
+
+def _omitted(item: ReportItem) -> str:
+    """The omission line of an item too long to read; a formula for it is short enough."""
+    return item.omitted if item.formula is None else ""
 
 
 def _condition_text(item: ReportItem, unicode: bool) -> str:
@@ -111,8 +116,12 @@ def _annotation(item: ReportItem, unicode: bool, names=()) -> str:
     """Note and condition of an item as one sentence (may be empty)."""
     from gacalc.printing import scalar_text
 
+    if _omitted(item):
+        return _omitted(item)
     parts = [item.note] if item.note else []
-    if item.condition is not None:
+    if item.condition_omitted and item.condition_formula is None:
+        parts.append(item.condition_omitted)
+    elif item.condition is not None:
         neq = "\u2260" if unicode else "!="
         condition = (item.condition_formula.text(unicode) if item.condition_formula is not None
                      else scalar_text(item.condition, unicode))
@@ -127,7 +136,8 @@ def _item_lines(item: ReportItem, value_lines: list, column: int, unicode: bool,
     """A short value with its label beside it in the label column; a verdict in words,
     or a value too long for the left column, as a block: its label line, then the value.
     A note that does not fit on the label's line follows it, indented, across the page."""
-    label = item.label + (f": {item.value}" if item.is_text else "")
+    label = item.label + (f": {item.value}" if item.is_text else
+                          ": omitted" if _omitted(item) else "")
     beside = len(value_lines) == 1 and len(value_lines[0]) <= column - 2
     if beside:
         first = value_lines[0].ljust(column) + "# " + label
@@ -154,7 +164,10 @@ def render_latex(report: Report, notes: bool = True) -> str:
     """One aligned block: \\text{label} & value, with notes in a third column."""
     rows = []
     for item in report.items:
-        value = item.formula.latex() if item.formula is not None else _latex_value(item.value)
+        if item.formula is not None:
+            value = item.formula.latex()
+        else:
+            value = _latex_value("omitted" if _omitted(item) else item.value)
         row = r"\text{%s} & %s" % (_latex_text(item.label), value)
         remark = _latex_remark(item) if notes else ""
         if remark:
@@ -180,13 +193,17 @@ def _latex_value(value) -> str:
 def _latex_remark(item: ReportItem) -> str:
     from gacalc.export import latex_of
 
+    if _omitted(item):
+        return r"\text{%s}" % _latex_text(_omitted(item))
     parts = []
     if item.note:
         parts.append(r"\text{%s}" % _latex_text(item.note))
-    if item.condition is not None:
-        condition = (item.condition_formula.latex() if item.condition_formula is not None
-                     else latex_of(item.condition))
-        parts.append(r"\text{where } %s \neq 0" % condition)
+    if item.condition_formula is not None:
+        parts.append(r"\text{where } %s \neq 0" % item.condition_formula.latex())
+    elif item.condition_omitted:
+        parts.append(r"\text{%s}" % _latex_text(item.condition_omitted))
+    elif item.condition is not None:
+        parts.append(r"\text{where } %s \neq 0" % latex_of(item.condition))
     return r",\ ".join(parts)
 
 

@@ -13,6 +13,7 @@ the short expressions quoted inside notes (written as gacalc input text).
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass, field
 from fractions import Fraction
 
@@ -28,6 +29,17 @@ GRADE_LABELS = {0: "scalar part", 1: "vector part", 2: "bivector part", 3: "triv
 QUATERNION_NOTE = "Hamilton: i = -e23, j = -e31, k = -e12"
 
 REPORT_BUDGET = 30.0    # seconds for a whole report made without a session's deadline
+# In a session's show, each section of the report (value, involutions, measures,
+# classification and forms) gets SECTION_SECONDS and the inverse, the costly measure,
+# INVERSE_SECONDS of its section; past it the section is named with one line saying how
+# to get its forms one by one.  Measured on 2 cores, unloaded: the slowest section of the
+# reports in the test suite (the classification of a symbolic rotor without its unit
+# condition) takes 0.25 s.  build_report without section_seconds (library use, tests)
+# has no per-section limit, so its result never depends on the machine's load.
+SECTION_SECONDS = 1.0
+INVERSE_SECONDS = 0.5
+# An item with more terms than this (more than a screen of text) is named, not printed.
+ITEM_TERMS = 160
 
 
 @dataclass(frozen=True)
@@ -47,6 +59,10 @@ class ReportItem:
     # the same value and condition as coordinate-free formulas (gacalc.forms.formula_items)
     formula: object = None
     condition_formula: object = None
+    # Set when the value (or its condition) is too long to read: the renderers print
+    # this line instead; the value itself stays in the report for programs.
+    omitted: str = ""
+    condition_omitted: str = ""
 
     @property
     def is_text(self) -> bool:
@@ -120,6 +136,8 @@ class _Simplifier:
     def __init__(self, conditions, deadline=None, call_seconds=None):
         from gacalc.simplify import DEFAULT_BUDGET, Budget
 
+        self.source = "X"      # the shown expression, for the hints of omitted items
+        self.section_seconds = None   # each section's limit (None: only the deadline)
         self.conditions = tuple(conditions or ())
         self.complete = True
         self.deadline = deadline if deadline is not None else Budget(REPORT_BUDGET)
@@ -186,7 +204,7 @@ def _condition(e, s: _Simplifier):
 
 
 def build_report(value, session=None, against=None, conditions=(), deadline=None,
-                 call_seconds=None) -> Report:
+                 call_seconds=None, source=None, section_seconds=None) -> Report:
     """The derived forms of value (optionally relative to the blade `against`).
 
     value: Multivector, a scalar (int, Fraction, sympy Expr), a sympy Matrix or a
@@ -194,11 +212,14 @@ def build_report(value, session=None, against=None, conditions=(), deadline=None
     equal to zero (side conditions active in the session).  session is accepted for
     display settings only; the report does not depend on it.  deadline: a
     gacalc.simplify.Budget the whole report keeps to (the statement's); call_seconds:
-    the budget of one simplification (the session's --budget).
+    the budget of one simplification (the session's --budget).  source: the shown
+    expression as input text, quoted in the lines that say how to get an omitted form.
     """
     from gacalc.values import kind_of
 
     s = _Simplifier(conditions, deadline, call_seconds)
+    s.source = source or "X"
+    s.section_seconds = section_seconds
     kind = kind_of(value)
     if kind is None:
         value = _as_multivector(value)
@@ -208,7 +229,7 @@ def build_report(value, session=None, against=None, conditions=(), deadline=None
 
 def multivector_report(x: Multivector, s: _Simplifier, against=None) -> Report:
     """The report of a multivector (the value kind of multivectors asks for it)."""
-    builder = _Builder(s.mv(x), s)
+    builder = _Builder(x, s)
     report = builder.build()
     report.items[1:1] = numeric_items(builder.x)
     if against is not None:
@@ -255,19 +276,106 @@ class _Parts:
     undecided: tuple      # grades whose vanishing could not be decided
 
 
+# Per label: the statement that computes an omitted form by itself ({} is the source).
+_HINTS = {
+    "value": "{}", "reverse": "rev({})", "grade involution": "involute({})",
+    "Clifford conjugate": "conjugate({})", "norm2": "norm2({})", "norm": "norm({})",
+    "inverse": "inverse({})", "dual": "dual({})", "Pauli matrix": "pauli({})",
+    "rotation matrix": "matrix({})", "quaternion": "quaternion({})", "log": "log({})",
+    "scalar part": "grade({}, 0)", "vector part": "grade({}, 1)",
+    "bivector part": "grade({}, 2)", "trivector part": "grade({}, 3)",
+}
+_SECTION_HINTS = {
+    VALUE: "{} and grade({}, k) print its value and parts",
+    INVOLUTIONS: "rev({}), involute({}) and conjugate({}) compute them one by one",
+    MEASURES: "norm2({}), norm({}), inverse({}) and dual({}) compute them one by one",
+    KIND: "angle({}), plane({}), matrix({}) and pauli({}) compute the forms one by one",
+}
+
+
 class _Builder:
     def __init__(self, x: Multivector, s: _Simplifier):
         self.x = x
         self.s = s
         self.items: list = []
+        self._norm2 = None
 
     def add(self, section, label, value, note="", condition=None):
         self.items.append(ReportItem(label, value, note, section, condition))
+
+    @property
+    def norm2(self):
+        if self._norm2 is None:
+            self._norm2 = self.s.scalar(self.x.norm2())
+        return self._norm2
+
+    # -- sections under their own budget ---------------------------------------------
+
+    def _section(self, section: str, compute, label: str | None = None,
+                 hint: str | None = None, share: float = 1.0):
+        """compute() under SECTION_SECONDS (and the report's deadline); on time-out its
+        items are replaced by one line naming the section and how to get its forms."""
+        from gacalc.simplify.budget import BudgetExceeded, time_limit
+
+        s = self.s
+        if s.section_seconds is None:
+            return compute()
+        outer = s.deadline
+        budget = outer.within(s.section_seconds * share)
+        start = len(self.items)
+        s.deadline = budget
+        try:
+            with time_limit(budget):
+                return compute()
+        except BudgetExceeded:
+            del self.items[start:]
+            hint = (hint or _SECTION_HINTS[section]).format(*[s.source] * 4)
+            self.add(section, label or section, "omitted",
+                     f"took more than {s.section_seconds * share:g} s; {hint}")
+            s.complete = False
+            return None
+        finally:
+            s.deadline = outer
+
+    def _shorten(self):
+        """Items too long to read are named with their size and the statement for them."""
+        for position, item in enumerate(self.items):
+            if isinstance(item.value, str):
+                continue
+            terms = _terms(item.value)
+            if terms > ITEM_TERMS:
+                hint = _HINTS.get(item.label)
+                how = f"; {hint.format(self.s.source)} prints it" if hint else ""
+                self.items[position] = dataclasses.replace(
+                    item, omitted=f"{terms} terms, too long to read here{how}")
+            elif item.condition is not None and _terms(item.condition) > ITEM_TERMS:
+                terms = _terms(item.condition)
+                self.items[position] = dataclasses.replace(
+                    item, condition_omitted=f"valid where a polynomial of {terms} terms "
+                    "is nonzero")
 
     # -- the common part -------------------------------------------------------
 
     def build(self) -> Report:
         s = self.s
+        parts = self._section(VALUE, self._value_section)
+        if parts is None:        # undecided which parts vanish: all are kept
+            grades = tuple(sorted(self.x.grades()))
+            parts = _Parts(grades, grades)
+        self._section(INVOLUTIONS, self._involutions)
+        self._section(MEASURES, self._measures)
+        kind = self._section(KIND, lambda: self._classify(parts))
+        if kind is None:
+            kind = "undecided"
+        self._shorten()
+        order = (VALUE, INVOLUTIONS, MEASURES, KIND, FORMS, AGAINST)
+        self.items.sort(key=lambda it: order.index(it.section))
+        title = {"zero": "zero", "undecided": "a multivector of undecided kind"}.get(
+            kind, ("an " if kind[0] in "aeiou" else "a ") + kind)
+        return Report(title, kind, self.items, s.complete)
+
+    def _value_section(self) -> _Parts:
+        self.x = self.s.mv(self.x)
         parts = self._parts()
         if len(parts.present) < len(self.x.grades()):  # a part shown to vanish is dropped
             self.x = sum((self.x.grade(k) for k in parts.present), Multivector({}))
@@ -277,23 +385,22 @@ class _Builder:
             for k in parts.present:
                 self.add(VALUE, GRADE_LABELS[k], x.grade(k))
         self.add(VALUE, "grades", _grades_text(parts))
+        return parts
 
+    def _involutions(self):
+        x = self.x
         self.add(INVOLUTIONS, "reverse", x.rev())
         self.add(INVOLUTIONS, "grade involution", x.involute())
         self.add(INVOLUTIONS, "Clifford conjugate", x.conjugate())
 
-        self.norm2 = s.scalar(x.norm2())
+    def _measures(self):
+        x = self.x
         self.add(MEASURES, "norm2", self.norm2, "<X X~>")
         self.add(MEASURES, "norm", sympy.sqrt(self.norm2))
-        self._inverse()
+        # the inverse is the costly measure: its own budget, so the others still show
+        self._section(MEASURES, self._inverse, "inverse", "inverse({}) computes it",
+                      INVERSE_SECONDS / SECTION_SECONDS)
         self.add(MEASURES, "dual", x.dual(), "X I^-1")
-
-        kind = self._classify(parts)
-        order = (VALUE, INVOLUTIONS, MEASURES, KIND, FORMS, AGAINST)
-        self.items.sort(key=lambda it: order.index(it.section))
-        title = {"zero": "zero", "undecided": "a multivector of undecided kind"}.get(
-            kind, ("an " if kind[0] in "aeiou" else "a ") + kind)
-        return Report(title, kind, self.items, s.complete)
 
     def _parts(self) -> _Parts:
         present, undecided = [], []
@@ -531,6 +638,39 @@ class _Builder:
                  "2*atan2(-b, |<V>1|) with <V>3 = b I; right-hand rule about n", cond)
         self.add(FORMS, "map matrix", _matrix_of(images),
                  "of x -> V x^ V^-1, determinant -1")
+
+
+def _terms(value) -> int:
+    """The number of terms of a value, counted without printing it (flint lengths for
+    multivectors; sum terms of sympy expressions and entries)."""
+    if isinstance(value, Multivector):
+        total = 0
+        for coef in value.coefs():
+            if coef is None:
+                continue
+            if coef.expr is not None:
+                total += len(sympy.Add.make_args(coef.expr))
+            else:
+                total += len(coef.num) + (len(coef.den) if coef.den is not None else 0)
+        return total
+    if isinstance(value, sympy.MatrixBase):
+        return sum(_terms(entry) for entry in value)
+    if isinstance(value, tuple):
+        return sum(_terms(entry) for entry in value)
+    if isinstance(value, sympy.Basic):
+        return _expr_terms(value)
+    return 1
+
+
+def _expr_terms(expr) -> int:
+    """Terms of a sympy scalar: summands, counted through products and powers of sums."""
+    if expr.is_Add:
+        return sum(_expr_terms(term) for term in expr.args)
+    if expr.is_Mul:
+        return max([1] + [_expr_terms(factor) for factor in expr.args])
+    if expr.is_Pow:
+        return _expr_terms(expr.base)
+    return 1
 
 
 def _matrix_of(images) -> sympy.ImmutableMatrix:

@@ -241,6 +241,7 @@ class StatementExecutors:
         if statement.against is not None:
             against = self._evaluate(statement.against, state, results, statement)
         from gacalc.forms import build_report
+        from gacalc.forms.report import SECTION_SECONDS
 
         values = [v for v in (value, against) if v is not None]
         for shown in values:       # the report multiplies the value with itself (norms...)
@@ -248,7 +249,9 @@ class StatementExecutors:
         conditions = [c.expr for c in relevant_conditions(state.conditions(), values)]
         report = build_report(value, session=self, against=against, conditions=conditions,
                               deadline=self._clock.within(None, MIN_SIMPLIFY_BUDGET),
-                              call_seconds=float(self.budget))
+                              call_seconds=float(self.budget),
+                              source=S.unparse(statement.expr),
+                              section_seconds=SECTION_SECONDS)
         if against is None:
             from gacalc.forms.kinematics import add_kinematics
 

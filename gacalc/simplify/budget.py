@@ -66,9 +66,18 @@ def _alarm(signum, frame):
     raise BudgetExceeded("time budget ran out")
 
 
+REPEAT_SECONDS = 0.25    # past the deadline, the alarm repeats this often
+
+
 @contextmanager
-def time_limit(budget: Budget):
-    """Arm SIGALRM for the budget's remaining time unless an outer limit is already armed."""
+def time_limit(budget: Budget, repeat: float = REPEAT_SECONDS):
+    """Arm SIGALRM for the budget's remaining time unless an outer limit is already armed.
+
+    The alarm repeats every ``repeat`` seconds after the deadline until the body ends: a
+    BudgetExceeded raised where sympy catches every Exception (or where an inner
+    fallback takes it) is raised again, so the limit holds however the body is written."""
+    if budget.remaining() <= 0:      # spent already, whatever alarm is armed outside
+        raise BudgetExceeded("time budget ran out")
     usable = (
         threading.current_thread() is threading.main_thread()
         and hasattr(signal, "setitimer")
@@ -84,7 +93,7 @@ def time_limit(budget: Budget):
         yield
         return
     previous = signal.signal(signal.SIGALRM, _alarm)
-    signal.setitimer(signal.ITIMER_REAL, remaining)
+    signal.setitimer(signal.ITIMER_REAL, remaining, repeat)
     try:
         yield
     finally:
