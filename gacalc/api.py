@@ -65,9 +65,9 @@ class Session(_LanguageSession):
             raise results[-1]
 
     def draw(self, *values, to: str | None = None, size=None):
-        """A picture of numeric values (see gacalc.draw.draw); names of this session are
+        """A picture of numeric values (see gacalc.pictures.draw); names of this session are
         accepted as strings of gacalc text, e.g. ``s.draw("rotate(R, x)", "x")``."""
-        from gacalc.draw import draw as draw_values
+        from gacalc.pictures import draw as draw_values
 
         return draw_values(*values, to=to, size=size, session=self)
 
@@ -106,5 +106,5 @@ def session() -> Session:
 
 
 def draw(*values, to: str | None = None, size=None):
-    """A picture of numeric values in the shared session (see gacalc.draw.draw)."""
+    """A picture of numeric values in the shared session (see gacalc.pictures.draw)."""
     return session().draw(*values, to=to, size=size)

@@ -192,7 +192,7 @@ class EmitResult(Result):
 
 @dataclass
 class DrawResult(Result):
-    """A picture (gacalc.draw): ``scene`` its items, ``figure`` the matplotlib Figure,
+    """A picture (gacalc.pictures): ``scene`` its items, ``figure`` the matplotlib Figure,
     ``image`` the SVG or PNG bytes (``format``), ``path`` the file written or None."""
 
     scene: object = None

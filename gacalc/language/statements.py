@@ -258,9 +258,9 @@ class StatementExecutors:
 
     def _do_Draw(self, statement, state, results, context):
         try:
-            from gacalc.draw.statement import run_draw
+            from gacalc.pictures.statement import run_draw
         except ModuleNotFoundError as error:    # numpy, which comes with matplotlib
-            from gacalc.draw import MISSING
+            from gacalc.pictures import MISSING
 
             raise GacalcError(MISSING if error.name == "numpy" else str(error),
                               statement.span) from None

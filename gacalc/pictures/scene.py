@@ -1,8 +1,8 @@
 """What a picture shows, as plain numbers: arrows, oriented discs, arcs and mirror planes.
 
 The scene is built from numeric gacalc values and knows nothing of matplotlib (that is
-gacalc.draw.render's job), so its geometry can be checked on its own.  Conventions are the
-project's: a bivector B has the normal dual(B) = B I^-1 (e12 -> e3) and circulates from
+gacalc.pictures.render's job), so its geometry can be checked on its own.  Conventions are
+the project's: a bivector B has the normal dual(B) = B I^-1 (e12 -> e3) and circulates from
 u to v with u /\\ v along B; a rotor R = cos(t/2) - sin(t/2) n I turns by t about n
 (right-hand rule); a vector n is the normal of the mirror plane it reflects in.
 """
