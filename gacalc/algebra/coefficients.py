@@ -195,8 +195,7 @@ class Coef:
     def __add__(self, other: "Coef") -> "Coef":
         if self.expr is not None or other.expr is not None:
             return Coef.from_expr_mode(self.to_expr() + other.to_expr())
-        n1, d1 = self.parts()
-        n2, d2 = other.parts()
+        (n1, d1), (n2, d2) = _both_parts(self, other)
         if d1 is None and d2 is None:
             return Coef(n1 + n2)
         if d1 is None:
@@ -218,8 +217,7 @@ class Coef:
     def __mul__(self, other: "Coef") -> "Coef":
         if self.expr is not None or other.expr is not None:
             return Coef.from_expr_mode(self.to_expr() * other.to_expr())
-        n1, d1 = self.parts()
-        n2, d2 = other.parts()
+        (n1, d1), (n2, d2) = _both_parts(self, other)
         if d1 is None and d2 is None:
             return Coef(n1 * n2)
         one = registry().constant(1)
@@ -448,3 +446,13 @@ def trig(kind: str, arg) -> Coef:
 def ascii_text(expr) -> str:
     """Input text of a sympy expression in sympy's argument order (generator names)."""
     return input_text(expr, order="none")
+
+
+def _both_parts(a: "Coef", b: "Coef"):
+    """The parts of two coefficients in one flint context: adopting the second from another
+    session's registry can add generators after the first was lifted, so lift it again."""
+    first, second = a.parts(), b.parts()
+    if first[0].context() is not second[0].context():
+        first = a.parts()
+    return first, second
+

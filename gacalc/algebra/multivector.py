@@ -401,6 +401,29 @@ class Multivector:
     def evalf(self, n: int = 15) -> "Multivector":
         return self.map_coefficients(lambda e: sympy.N(e, n))
 
+    def simplified(self, conditions=()) -> "Multivector":
+        """The value with its coefficients simplified (as the language shows them), under
+        optional side conditions (sympy Exprs equal to zero); the installed simplifier."""
+        return current().simplifier.simplify(self, conditions)
+
+    def to_sympy(self, component: str | None = None, grade: int | None = None):
+        """One component as a sympy Expr (``A.to_sympy("e12")``), or a dict basis name ->
+        Expr of all eight components, or of one grade's (``A.to_sympy(grade=1)``)."""
+        from .conversion import to_sympy
+
+        return to_sympy(self, component, grade)
+
+    def to_numpy(self, grade: int | None = None):
+        """The components as a float numpy array: all eight in basis order, or one grade's
+        (``A.to_numpy(grade=1)`` is x, y, z).  ValueError naming the symbols left unset."""
+        from .conversion import to_numpy
+
+        return to_numpy(self, grade)
+
+    def __invert__(self):
+        # ~A is the reverse, as A~ in the language
+        return self.rev()
+
     def __str__(self):
         parts = []
         for k, text in self.coefficient_texts():

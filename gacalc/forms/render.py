@@ -163,17 +163,26 @@ def _item_lines(item: ReportItem, value_lines: list, column: int, unicode: bool,
 def render_latex(report: Report, notes: bool = True) -> str:
     """One aligned block: \\text{label} & value, with notes in a third column."""
     rows = []
-    for item in report.items:
-        if item.formula is not None:
-            value = item.formula.latex()
-        else:
-            value = _latex_value("omitted" if _omitted(item) else item.value)
-        row = r"\text{%s} & %s" % (_latex_text(item.label), value)
-        remark = _latex_remark(item) if notes else ""
-        if remark:
+    for _, label, value, remark in latex_rows(report):
+        row = r"\text{%s} & %s" % (_latex_text(label), value)
+        if remark and notes:
             row += r" && " + remark
         rows.append(row)
     return "\\begin{aligned}\n" + " \\\\\n".join(rows) + "\n\\end{aligned}"
+
+
+def latex_rows(report: Report) -> list:
+    """(section, label, value as LaTeX, remark as LaTeX or "") for each item: the cells of
+    a report laid out by another front end (a notebook's HTML table)."""
+    return [(item.section, item.label, _latex_item_value(item), _latex_remark(item))
+            for item in report.items]
+
+
+def _latex_item_value(item: ReportItem) -> str:
+    """A formula when one was proved; one word for a value too long to read."""
+    if item.formula is not None:
+        return item.formula.latex()
+    return _latex_value("omitted" if _omitted(item) else item.value)
 
 
 def _latex_value(value) -> str:

@@ -15,7 +15,7 @@ _LAZY = {
     "Session": "session", "Result": "results", "ValueResult": "results",
     "CheckResult": "results", "NoteResult": "results", "ShowResult": "results",
     "EmitResult": "results", "HelpResult": "results", "DeclarationResult": "results",
-    "FileResult": "results", "reading": "parser",
+    "FileResult": "results", "DrawResult": "results", "reading": "parser",
     "parse": "parser", "read_expression": "parser", "iter_statements": "parser",
     "tokenize": "scanner", "scan": "scanner", "needs_more_input": "scanner",
     "token_patterns": "tokens", "PYGMENTS_TOKEN_TYPES": "tokens",

@@ -72,6 +72,17 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
              "                       file saved by gacalc\n"
              "save \"file.gac\" force  overwrites any file\n"
              "  example: save \"session.gac\""),
+    "draw": ("a picture of numeric values: draw X, ... [to \"file.svg\"|\"file.png\"]",
+             "draw X, ...            vectors as arrows, bivectors as oriented discs (area\n"
+             "                       |B|, arrow u -> v for B along u /\\ v), rotors as the arc\n"
+             "                       they turn a reference vector through\n"
+             "draw rotate(R, x)      x, its image and the arc between them\n"
+             "draw reflect(x, n)     x, its image and the mirror plane normal to n\n"
+             "draw ... to \"f.svg\"    writes the picture (.svg or .png); without 'to' a\n"
+             "                       notebook shows it and a terminal writes drawing-N.svg\n"
+             "values need numbers: subs(X, t, 1/2) gives a symbol one (needs matplotlib:\n"
+             "pip install 'gacalc[draw]')\n"
+             "  example: draw reflect(e1 + e2, e1), rotor(e12, pi/3)"),
     "help": ("help, help NAME", "help        this overview\nhelp NAME   one function, "
              "statement or topic (operators, names)\n  example: help rotor"),
     "scalar": ("declare real scalar symbols: scalar t, u", "  example: scalar theta"),
@@ -158,6 +169,7 @@ def _overview() -> str:
              "  emit "
              f"{'|'.join(export_targets.TARGETS)} EXPR [as NAME] [to \"file\"]",
              "  use \"file\"   save \"file\" [force]   help [NAME]",
+             "  draw X, ... [to \"file.svg\"]",
              "functions:"]
     for category, names in categories.items():
         lines.append(f"  {category + ':':17}{', '.join(names)}")

@@ -669,6 +669,29 @@ class _StatementParser:
             topic = self.advance().value
         return S.Help(keyword.span, topic)
 
+    def _statement_draw(self) -> S.Statement:
+        keyword = self.advance()
+        if self.at_end() or self.check(T.KEYWORD, "to"):
+            self.fail("draw needs values: draw X, Y, ... [to \"picture.svg\"]")
+        exprs = [self.expression()]
+        while self.check(T.COMMA):
+            self.advance()
+            if self.at_end() or self.check(T.KEYWORD, "to"):
+                self.fail("missing value after ','")
+            exprs.append(self.expression())
+        path = path_span = None
+        if self.check(T.KEYWORD, "to"):
+            self.advance()
+            token = self.peek()
+            if token.kind == T.UNTERMINATED_STRING:
+                raise token_error(token)
+            token = self.expect(T.STRING, 'expected a file name in quotes after \'to\': '
+                                'to "picture.svg"')
+            if not token.value.strip():
+                self.fail("the file name is empty", token.span)
+            path, path_span = token.value, token.span
+        return S.Draw(keyword.span, exprs, path, path_span)
+
     def _unexpected_keyword(self):
         token = self.peek()
         self.fail(f"'{token.text}' cannot start a statement")

@@ -1,7 +1,7 @@
 """Results of running gacalc statements (what Session.run returns, besides errors).
 
 Every result has ``kind`` ('value', 'check', 'note', 'declaration', 'show', 'emit',
-'help', 'file'), ``span`` / ``filename`` / ``line`` / ``column`` of the statement,
+'help', 'file', 'draw'), ``span`` / ``filename`` / ``line`` / ``column`` of the statement,
 ``silent`` (the statement ended with ';'), ``text`` (in the session's display mode)
 and ``render(unicode=False)``.
 """
@@ -222,6 +222,33 @@ class EmitResult(Result):
         if self.path is not None:
             return f"wrote {self.target} to {self.path}"
         return self.code
+
+
+@dataclass
+class DrawResult(Result):
+    """A picture (gacalc.pictures): ``scene`` its items, ``figure`` the matplotlib Figure,
+    ``image`` the SVG or PNG bytes (``format``), ``path`` the file written or None."""
+
+    scene: object = None
+    figure: object = field(default=None, repr=False)
+    image: bytes = field(default=b"", repr=False)
+    format: str = "svg"
+    path: str | None = None
+
+    def __post_init__(self):
+        self.kind = "draw"
+
+    def render(self, unicode: bool = False) -> str:
+        what = self.scene.summary() if self.scene is not None else "nothing"
+        if self.path is not None:
+            return f"drew {what} to {self.path}"
+        return f"picture of {what}"
+
+    def _repr_svg_(self):
+        return self.image.decode("utf-8") if self.format == "svg" else None
+
+    def _repr_png_(self):
+        return self.image if self.format == "png" else None
 
 
 @dataclass

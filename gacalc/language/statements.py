@@ -304,6 +304,19 @@ class StatementExecutors:
         results.append(self._result(EmitResult, statement, target=statement.target,
                                     code=code, path=path))
 
+    inline_pictures = False          # a front end that shows pictures itself sets this
+    picture_size = (640, 480)        # pixels of a drawn picture
+
+    def _do_Draw(self, statement, state, results, context):
+        try:
+            from gacalc.pictures.statement import run_draw
+        except ModuleNotFoundError as error:    # numpy, which comes with matplotlib
+            from gacalc.pictures import MISSING
+
+            raise GacalcError(MISSING if error.name == "numpy" else str(error),
+                              statement.span) from None
+        run_draw(self, statement, state, results, context)
+
     def _do_Help(self, statement, state, results, context):
         text = help_text(statement.topic, state.functions)
         if text is None:

@@ -215,6 +215,15 @@ class Help(Statement):
     topic: str | None
 
 
+@dataclass
+class Draw(Statement):
+    """draw X, ... [to "file.svg"|"file.png"]"""
+
+    exprs: list
+    path: str | None
+    path_span: Span | None = field(default=None, repr=False, compare=False)
+
+
 # Unparsing ---------------------------------------------------------------------
 _PREC_SUM, _PREC_PRODUCT, _PREC_WEDGE, _PREC_NEGATE, _PREC_POSTFIX, _PREC_ATOM = range(6)
 
