@@ -35,6 +35,9 @@ MAX_NUMBER_DIGITS = 1000
 _WEDGE_KINDS = (T.WEDGE, T.LCONTRACT, T.RCONTRACT, T.INNER)
 _PRIMARY_START = frozenset(T.NAME_KINDS | {T.NUMBER, T.LPAREN, T.LANGLE})
 _STATEMENT_END = frozenset({T.NEWLINE, T.SEMICOLON, T.EOF})
+_LBRACKET = getattr(T, "LBRACKET", "LBRACKET")   # square brackets: closed interval ends
+_RBRACKET = getattr(T, "RBRACKET", "RBRACKET")
+_RELATIONS = {T.EQUALS: "=", T.LANGLE: "<", T.LESSEQ: "<=", T.RANGLE: ">", T.GREATEREQ: ">="}
 
 _DESCRIPTIONS = {
     T.EOF: "the end of the input", T.NEWLINE: "the end of the line",
@@ -60,6 +63,7 @@ class _StatementParser:
         self.terminator = terminator
         self.position = 0
         self.depth = 0
+        self.comparing = False   # in a condition: a '<' after an operand compares
 
     # Token access -------------------------------------------------------------
     def peek(self, offset: int = 0) -> Token:
@@ -137,6 +141,8 @@ class _StatementParser:
                 self.advance()
                 ops.append("*" if token.kind == T.STAR else "/")
             elif token.kind in _PRIMARY_START:
+                if token.kind == T.LANGLE and self.comparing:
+                    break           # 0 < a: a comparison, not a grade bracket
                 if token.kind == T.NUMBER and self.previous().kind == T.NUMBER:
                     self.fail(f"two numbers in a row: write {self.previous().text}*{token.text} "
                               "for a product", token.span)
@@ -257,13 +263,21 @@ class _StatementParser:
             self.enter(token)
             if self.check(T.RPAREN):
                 self.fail("empty parentheses: put an expression inside ( )")
-            inner = self.expression()
+            inner = self._bracketed()
             self._close(token, T.RPAREN, "')'")
             self.leave()
             return inner
         if kind == T.LANGLE:
             return self.parse_grade(token)
         self._operand_expected(token)
+
+    def _bracketed(self) -> S.Node:
+        """An expression inside brackets, where '<' opens a grade bracket again."""
+        saved, self.comparing = self.comparing, False
+        try:
+            return self.expression()
+        finally:
+            self.comparing = saved
 
     def _operand_expected(self, token: Token):
         before = self.previous()
@@ -297,7 +311,7 @@ class _StatementParser:
         self.enter(opener)
         if self.check(T.RANGLE):
             self.fail("empty grade brackets: write <A> or <A>k")
-        inner = self.expression()
+        inner = self._bracketed()
         close = self.peek()
         self._close(opener, T.RANGLE, "'>'")
         self.leave()
@@ -318,7 +332,7 @@ class _StatementParser:
             while True:
                 if self.check(T.COMMA):
                     self.fail("missing argument before ','")
-                args.append(self.expression())
+                args.append(self._bracketed())
                 if self.check(T.COMMA):
                     self.advance()
                     if self.check(T.RPAREN):
@@ -450,6 +464,8 @@ class _StatementParser:
         keyword = self.advance()
         names: list[S.Param] = []
         unit = False
+        intervals: dict = {}
+        ranged = 0
         while True:
             token = self.peek()
             if token.kind in _STATEMENT_END:
@@ -462,6 +478,18 @@ class _StatementParser:
             if self.check(T.NAME, "unit"):
                 self.advance()
                 unit = True
+            if self.check(T.NAME, "in"):
+                if keyword.value != "scalar":
+                    self.fail(f"a range 'in (low, high)' belongs to scalars, not to a "
+                              f"{keyword.value}")
+                self.advance()
+                interval = self._interval()
+                for param in names[ranged:]:   # the names since the last range share it
+                    intervals[param.name] = interval
+                ranged = len(names)
+                if self.check(T.COMMA):
+                    self.advance()
+                    continue
             if not self.at_end():
                 following = self.peek()
                 if following.is_name:
@@ -471,30 +499,76 @@ class _StatementParser:
             break
         if len({param.name for param in names}) != len(names):
             self.fail("a name is declared twice in the same statement", keyword.span)
-        return S.Declare(keyword.span, keyword.value, names, unit)
+        return S.Declare(keyword.span, keyword.value, names, unit, intervals=intervals)
 
     def _conditions(self, keyword: str) -> list[S.Condition]:
+        """C, C, ...: each an equation L = R or a range chain such as 0 < a < pi."""
         conditions = []
         while True:
             start = self.peek()
             if start.kind in _STATEMENT_END:
-                self.fail(f"expected a condition L = R after '{self.previous().text}'")
-            left = self.expression()
-            if self.check(T.EQEQ):
-                self.fail("a condition is written with a single '=': L = R")
-            if not self.check(T.EQUALS):
-                if self.at_end():
-                    self.fail(f"a condition after '{keyword}' is written L = R")
-                self._trailing(self.peek())
-            self.advance()
-            if self.at_end():
-                self.fail("expected the right-hand side of the condition after '='")
-            right = self.expression()
-            conditions.append(S.Condition(self.span_from(start), left, right))
+                self.fail(f"expected a condition L = R after '{self.previous().text}' "
+                          "(or a range such as t > 0)")
+            conditions.extend(self._condition_chain(keyword))
             if self.check(T.COMMA):
                 self.advance()
                 continue
             return conditions
+
+    def _comparand(self) -> S.Node:
+        saved, self.comparing = self.comparing, True
+        try:
+            return self.expression()
+        finally:
+            self.comparing = saved
+
+    def _condition_chain(self, keyword: str) -> list[S.Condition]:
+        start = self.peek()
+        left = self._comparand()
+        if self.check(T.EQEQ):
+            self.fail("a condition is written with a single '=': L = R")
+        links = []
+        while self.peek().kind in _RELATIONS:
+            op = self.advance()
+            if self.at_end() or self.check(T.COMMA):
+                self.fail(f"expected the right-hand side of the condition after '{op.text}'")
+            links.append((op, self._comparand()))
+        if not links:
+            if self.at_end():
+                self.fail(f"a condition after '{keyword}' is written L = R (or as a range "
+                          "such as t > 0 or 0 < t < pi)")
+            self._trailing(self.peek())
+        relations = [_RELATIONS[op.kind] for op, _ in links]
+        if "=" in relations and len(relations) > 1:
+            self.fail("an equation L = R cannot be chained with other relations",
+                      links[1][0].span)
+        if len(relations) > 1 and len({r[0] for r in relations}) > 1:
+            self.fail("a range chain runs one way: write 0 < a < pi or pi > a > 0",
+                      links[1][0].span)
+        span = self.span_from(start)
+        out, lower = [], left
+        for (op, upper), relation in zip(links, relations):
+            out.append(S.Condition(span, lower, upper, relation=relation))
+            lower = upper
+        return out
+
+    def _interval(self) -> S.Interval:
+        """(low, high), [low, high], (low, high], [low, high) after 'in'."""
+        opener = self.peek()
+        if opener.kind not in (T.LPAREN, _LBRACKET):
+            self.fail("a range after 'in' is an interval: (low, high), [low, high], "
+                      "(low, high] or [low, high)")
+        self.advance()
+        low = self._bracketed()
+        self.expect(T.COMMA, "an interval has two ends: (low, high)")
+        high = self._bracketed()
+        closer = self.peek()
+        if closer.kind not in (T.RPAREN, _RBRACKET):
+            self.fail(f"expected ')' or ']' to close the interval opened at "
+                      f"{opener.span.line}:{opener.span.column}, found {describe(closer)}")
+        self.advance()
+        return S.Interval(self.span_from(opener), low, high, opener.kind == T.LPAREN,
+                          closer.kind == T.RPAREN)
 
     def _statement_check(self) -> S.Statement:
         keyword = self.advance()

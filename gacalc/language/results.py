@@ -152,8 +152,8 @@ class DeclarationResult(Result):
         lines = []
         for name, value in self.values.items():
             lines.append(f"{self.declared_kind} {name} = {value_text(value, unicode, 10**6)}")
-        for condition in self.conditions:
-            lines.append(f"  with {condition.text}")
+        for text in dict.fromkeys(condition.text for condition in self.conditions):
+            lines.append(f"  with {text}")   # a range's two ends share one text
         return "\n".join(lines)
 
 

@@ -83,6 +83,7 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
         source = Source(source, filename)
     depth = 0
     previous_kind = None
+    comparing = False     # after assume/given, '<' and '>' compare: they open nothing
     for token in raw_tokens(source):
         kind = token.kind
         if kind in T.TRIVIA_KINDS:
@@ -92,12 +93,16 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
                 continue
             if previous_kind == T.NEWLINE:
                 continue      # blank lines are one separator
-        elif kind in _OPENERS:
+            comparing = False
+        elif kind == T.KEYWORD and token.value in T.COMPARISON_KEYWORDS:
+            comparing = True
+        elif kind in _OPENERS and not (comparing and kind == T.LANGLE):
             depth += 1
-        elif kind in _CLOSERS:
+        elif kind in _CLOSERS and not (comparing and kind == T.RANGLE):
             depth = max(0, depth - 1)
         elif kind == T.SEMICOLON:
             depth = 0         # a ';' always ends a statement (unclosed brackets error)
+            comparing = False
         previous_kind = kind
         yield token
     end = len(source.text)
@@ -113,15 +118,19 @@ def needs_more_input(text: str) -> bool:
     with an operator or comma.  For REPLs that accept multi-line input."""
     depth = 0
     last = None
+    comparing = False
     for token in raw_tokens(Source(text)):
         if token.kind in T.TRIVIA_KINDS or token.kind == T.NEWLINE:
             continue
-        if token.kind in _OPENERS:
+        if token.kind == T.KEYWORD and token.value in T.COMPARISON_KEYWORDS:
+            comparing = True
+        elif token.kind in _OPENERS and not (comparing and token.kind == T.LANGLE):
             depth += 1
-        elif token.kind in _CLOSERS:
+        elif token.kind in _CLOSERS and not (comparing and token.kind == T.RANGLE):
             depth = max(0, depth - 1)
         elif token.kind == T.SEMICOLON:
             depth = 0
+            comparing = False
         last = token.kind
     return depth > 0 or last in T.CONTINUATION_KINDS
 

@@ -131,14 +131,27 @@ class Declare(Statement):
     kind: str                 # one of tokens.DECLARATION_KINDS
     names: list               # list of Param (name + span)
     unit: bool
+    # scalar a in (0, pi), b, c in [0, 1]: name -> Interval
+    intervals: dict = field(default_factory=dict, kw_only=True)
+
+
+@dataclass
+class Interval(Node):
+    """(low, high) with open or closed ends: ``scalar a in (0, pi]``."""
+
+    low: Node
+    high: Node
+    low_open: bool
+    high_open: bool
 
 
 @dataclass
 class Condition(Node):
-    """L = R, a scalar side condition."""
+    """L = R, a scalar side condition; or a range L < R, L <= R, L > R, L >= R."""
 
     left: Node
     right: Node
+    relation: str = field(default="=", kw_only=True)   # one of = < <= > >=
 
 
 @dataclass

@@ -66,6 +66,8 @@ SLASH = "SLASH"
 CARET = "CARET"
 REVERSE = "REVERSE"
 LANGLE = "LANGLE"
+LESSEQ = "LESSEQ"
+GREATEREQ = "GREATEREQ"
 RANGLE = "RANGLE"
 LPAREN = "LPAREN"
 RPAREN = "RPAREN"
@@ -88,6 +90,8 @@ OPERATOR_SPELLINGS: dict[str, tuple[str, ...]] = {
     SLASH: ("/", "/"),
     CARET: ("^", "^"),
     REVERSE: ("~", "\u2020", "\u02dc"),   # † ˜
+    LESSEQ: ("<=", "\u2264"),             # ≤ (ranges: assume 0 <= a)
+    GREATEREQ: (">=", "\u2265"),          # ≥
     LANGLE: ("<", "\u27e8"),              # ⟨
     RANGLE: (">", "\u27e9"),              # ⟩
     LPAREN: ("(", "("),
@@ -105,7 +109,7 @@ DECLARATION_KINDS = ("scalar", "vector", "bivector", "rotor", "multivector")
 # target registered later is accepted too).
 EMIT_TARGETS = tuple(_export_targets.TARGETS)
 # Words with a meaning inside one statement only; elsewhere they are ordinary names.
-SOFT_KEYWORDS = ("unit", "none", "force", *EMIT_TARGETS)
+SOFT_KEYWORDS = ("unit", "none", "force", "in", *EMIT_TARGETS)
 CONSTANTS = ("pi", "I")
 
 GREEK_LETTERS = {
@@ -195,6 +199,9 @@ def token_patterns() -> list[tuple[str, str]]:
         (SLASH, _spellings(SLASH)),
         (CARET, _spellings(CARET)),
         (REVERSE, _spellings(REVERSE)),
+        # '<=' and '>=' (ranges), but '>==' stays '>' '==' (check <A>== 1)
+        (LESSEQ, "<=(?!=)|\u2264"),
+        (GREATEREQ, ">=(?!=)|\u2265"),
         (LANGLE, _spellings(LANGLE)),
         (RANGLE, _spellings(RANGLE)),
         (LPAREN, _spellings(LPAREN)),
@@ -232,6 +239,8 @@ PYGMENTS_TOKEN_TYPES: dict[str, str] = {
     SLASH: "Operator",
     CARET: "Operator",
     REVERSE: "Operator",
+    LESSEQ: "Operator",
+    GREATEREQ: "Operator",
     LANGLE: "Punctuation",
     RANGLE: "Punctuation",
     LPAREN: "Punctuation",
@@ -244,8 +253,11 @@ PYGMENTS_TOKEN_TYPES: dict[str, str] = {
 # Kinds the parser reads as names (the difference only matters to the highlighter
 # and to the evaluator's resolution of the name).
 NAME_KINDS = frozenset({NAME, BLADE, CONSTANT, BUILTIN})
+# Keywords after which '<' and '>' compare (ranges) rather than open grade brackets.
+COMPARISON_KEYWORDS = frozenset({"assume", "given"})
 # Kinds the scanner drops before parsing.
 TRIVIA_KINDS = frozenset({WHITESPACE, COMMENT})
 # A line ending right after one of these continues on the next line.
 CONTINUATION_KINDS = frozenset({WEDGE, LCONTRACT, RCONTRACT, EQEQ, EQUALS, INNER, PLUS,
+                                LESSEQ, GREATEREQ,
                                 MINUS, STAR, SLASH, CARET, COMMA})
