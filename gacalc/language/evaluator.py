@@ -328,6 +328,30 @@ class Evaluator:
             return left * right
         return self.multiply(left, right, span)
 
+    # Lists and indexing ------------------------------------------------------------
+    def _eval_ListLiteral(self, node: S.ListLiteral, frame):
+        from gacalc.values.sequence import ValueList
+
+        return ValueList(self.evaluate(item, frame) for item in node.items)
+
+    def _eval_Index(self, node: S.Index, frame):
+        base = self.evaluate(node.base, frame)
+        indices = [self.evaluate(index, frame) for index in node.indices]
+        spans = [index.span for index in node.indices] + [node.span]
+        return self._kind(base).index(self, base, indices, spans)
+
+    def index_number(self, value, span: Span, count: int, what: str = "items") -> int:
+        """A 1-based index into ``count`` items, as a Python int."""
+        number = self.scalar(value, span, "an index")
+        if not number.is_Integer:
+            raise GacalcTypeError(f"an index is a whole number from 1 to {count}, not "
+                                  f"{scalar_text(number)}", span)
+        position = int(number)
+        if not 1 <= position <= count:
+            raise GacalcTypeError(f"index {position} is out of range: {what} are numbered "
+                                  f"1 to {count}", span)
+        return position
+
     # Calls -------------------------------------------------------------------------
     def _eval_Call(self, node: S.Call, frame):
         name = node.name

@@ -203,7 +203,7 @@ class _StatementParser:
         count = 0
         while True:
             token = self.peek()
-            if token.kind in (T.REVERSE, T.CARET, T.SUPERSCRIPT):
+            if token.kind in (T.REVERSE, T.CARET, T.SUPERSCRIPT, T.LBRACKET):
                 count += 1      # each postfix operator nests the tree one level deeper
                 if count + self.depth > MAX_DEPTH:
                     raise GacalcLimitError(f"too many postfix operators in a row (more than "
@@ -219,8 +219,24 @@ class _StatementParser:
                 self.advance()
                 exponent = _integer_node(token.value, token.span)
                 node = S.Power(self.span_from(start), node, exponent)
+            elif token.kind == T.LBRACKET and token.span.start == self.previous().span.end:
+                # X[k] only written against its operand: "A [..." is not an index
+                node = self.parse_index(start, node)
             else:
                 return node
+
+    def parse_index(self, start: Token, base: S.Node) -> S.Node:
+        opener = self.advance()
+        self.enter(opener)
+        if self.check(T.RBRACKET):
+            self.fail("empty index: write X[1] for the first item")
+        indices = [self._bracketed()]
+        while self.check(T.COMMA):
+            self.advance()
+            indices.append(self._bracketed())
+        self._close(opener, T.RBRACKET, "']'")
+        self.leave()
+        return S.Index(self.span_from(start), base, indices)
 
     def parse_exponent(self, caret: Token) -> S.Node:
         self.enter(caret)
@@ -264,6 +280,18 @@ class _StatementParser:
             if self.check(T.RPAREN):
                 self.fail("empty parentheses: put an expression inside ( )")
             inner = self._bracketed()
+            if self.check(T.COMMA):
+                items = [inner]
+                while self.check(T.COMMA):
+                    self.advance()
+                    if self.check(T.RPAREN):
+                        break                 # a trailing comma: (a, b,)
+                    if self.check(T.COMMA):
+                        self.fail("missing item before ','")
+                    items.append(self._bracketed())
+                self._close(token, T.RPAREN, "')'")
+                self.leave()
+                return S.ListLiteral(self.span_from(token), items)
             self._close(token, T.RPAREN, "')'")
             self.leave()
             return inner

@@ -59,8 +59,8 @@ def _normalise(kind: str, text: str) -> str:
     return text
 
 
-_OPENERS = {T.LPAREN: T.RPAREN, T.LANGLE: T.RANGLE}
-_CLOSERS = {T.RPAREN, T.RANGLE}
+_OPENERS = {T.LPAREN: T.RPAREN, T.LANGLE: T.RANGLE, T.LBRACKET: T.RBRACKET}
+_CLOSERS = {T.RPAREN, T.RANGLE, T.RBRACKET}
 
 
 def raw_tokens(source: Source) -> Iterator[Token]:

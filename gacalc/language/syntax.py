@@ -94,6 +94,21 @@ class Call(Node):
     spaced: bool
 
 
+@dataclass
+class ListLiteral(Node):
+    """``(a, b, c)``: a list of values (two or more items, in parentheses)."""
+
+    items: list
+
+
+@dataclass
+class Index(Node):
+    """``X[k]``: item k of a list (1-based), written right against its operand."""
+
+    base: Node
+    indices: list
+
+
 # Statements --------------------------------------------------------------------
 @dataclass
 class Statement(Node):
@@ -335,6 +350,13 @@ class _Unparser:
         args = ", ".join(self.text(arg) for arg in node.args)
         space = " " if node.spaced else ""
         return f"{_greek(node.name, self.unicode)}{space}({args})", _PREC_ATOM
+
+    def visit_ListLiteral(self, node):
+        return "(" + ", ".join(self.text(item) for item in node.items) + ")", _PREC_ATOM
+
+    def visit_Index(self, node):
+        indices = ", ".join(self.text(index) for index in node.indices)
+        return f"{self.wrap(node.base, _PREC_ATOM)}[{indices}]", _PREC_POSTFIX
 
 
 _PRODUCT_OPS = {"*": " * ", "/": " / ", "": " "}

@@ -71,6 +71,8 @@ GREATEREQ = "GREATEREQ"
 RANGLE = "RANGLE"
 LPAREN = "LPAREN"
 RPAREN = "RPAREN"
+LBRACKET = "LBRACKET"
+RBRACKET = "RBRACKET"
 COMMA = "COMMA"
 SEMICOLON = "SEMICOLON"
 ERROR = "ERROR"
@@ -96,6 +98,8 @@ OPERATOR_SPELLINGS: dict[str, tuple[str, ...]] = {
     RANGLE: (">", "\u27e9"),              # ⟩
     LPAREN: ("(", "("),
     RPAREN: (")", ")"),
+    LBRACKET: ("[", "["),
+    RBRACKET: ("]", "]"),
     COMMA: (",", ","),
     SEMICOLON: (";", ";"),
 }
@@ -206,6 +210,8 @@ def token_patterns() -> list[tuple[str, str]]:
         (RANGLE, _spellings(RANGLE)),
         (LPAREN, _spellings(LPAREN)),
         (RPAREN, _spellings(RPAREN)),
+        (LBRACKET, _spellings(LBRACKET)),
+        (RBRACKET, _spellings(RBRACKET)),
         (COMMA, _spellings(COMMA)),
         (SEMICOLON, _spellings(SEMICOLON)),
         (ERROR, r"[\s\S]"),
@@ -245,6 +251,8 @@ PYGMENTS_TOKEN_TYPES: dict[str, str] = {
     RANGLE: "Punctuation",
     LPAREN: "Punctuation",
     RPAREN: "Punctuation",
+    LBRACKET: "Punctuation",
+    RBRACKET: "Punctuation",
     COMMA: "Punctuation",
     SEMICOLON: "Punctuation",
     ERROR: "Error",

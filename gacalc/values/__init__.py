@@ -53,6 +53,6 @@ def size(value):
     return kind.size(value) if kind is not None else None
 
 
-from . import quaternion, matrix, multivector  # noqa: E402  (register the built-in kinds)
+from . import sequence, quaternion, matrix, multivector  # noqa: E402  (register the built-in kinds)
 
 __all__ = ["ValueKind", "register", "unregister", "kind_of", "describe", "symbols", "size"]

@@ -65,6 +65,13 @@ class ValueKind:
             base, n = evaluator.inverse(base, node.span), -n
         return evaluator.integer_power(base, n, node.span)
 
+    # Indexing ------------------------------------------------------------------------------
+    def index(self, evaluator, value, indices, spans):
+        """value[indices...]: ``indices`` are evaluated values, ``spans`` the index texts'
+        spans followed by the whole expression's."""
+        raise GacalcTypeError(f"cannot index {self.describe(value)}: only lists (and "
+                              "matrices) take X[k]", spans[-1])
+
     # Side conditions, simplification, comparison ------------------------------------------
     def symbols(self, value) -> frozenset:
         return frozenset()

@@ -61,6 +61,17 @@ class MatrixKind(ValueKind):
         return evaluator.inverse(base, node.span) ** int(-exponent) if exponent < 0 \
             else base ** int(exponent)
 
+    def index(self, evaluator, value, indices, spans):
+        from gacalc.algebra import Multivector
+
+        if len(indices) != 2:
+            raise GacalcTypeError(f"a matrix entry takes two indices, row and column: "
+                                  f"M[1, 2], not {len(indices)}", spans[-1])
+        row = evaluator.index_number(indices[0], spans[0], value.rows, "rows")
+        column = evaluator.index_number(indices[1], spans[1], value.cols, "columns")
+        entry = value[row - 1, column - 1]
+        return _complex_mv(entry) if entry.has(sympy.I) else Multivector.scalar(entry)
+
     def differences(self, left, right):
         from gacalc.algebra import Multivector
 
