@@ -35,8 +35,7 @@ MAX_NUMBER_DIGITS = 1000
 _WEDGE_KINDS = (T.WEDGE, T.LCONTRACT, T.RCONTRACT, T.INNER)
 _PRIMARY_START = frozenset(T.NAME_KINDS | {T.NUMBER, T.LPAREN, T.LANGLE})
 _STATEMENT_END = frozenset({T.NEWLINE, T.SEMICOLON, T.EOF})
-_LBRACKET = getattr(T, "LBRACKET", "LBRACKET")   # square brackets: closed interval ends
-_RBRACKET = getattr(T, "RBRACKET", "RBRACKET")
+_LBRACKET, _RBRACKET = T.LBRACKET, T.RBRACKET   # square brackets: closed interval ends
 _RELATIONS = {T.EQUALS: "=", T.LANGLE: "<", T.LESSEQ: "<=", T.RANGLE: ">", T.GREATEREQ: ">="}
 
 _DESCRIPTIONS = {
@@ -297,6 +296,8 @@ class _StatementParser:
             return inner
         if kind == T.LANGLE:
             return self.parse_grade(token)
+        if kind == T.LBRACKET:
+            return self.parse_matrix(token)
         self._operand_expected(token)
 
     def _bracketed(self) -> S.Node:
@@ -352,6 +353,36 @@ class _StatementParser:
             grade = int(after.text)
         return S.GradePart(self.span_from(opener), inner, grade)
 
+    def parse_matrix(self, opener: Token) -> S.Node:
+        """[a, b; c, d]: entries separated by ',', rows by ';' (all rows equally long)."""
+        self.advance()
+        self.enter(opener)
+        if self.check(T.RBRACKET):
+            self.fail("empty matrix: write its entries, [a, b; c, d]")
+        rows, row = [], []
+        while True:
+            if self.peek().kind in (T.COMMA, T.ROWSEP, T.RBRACKET):
+                self.fail("missing matrix entry")
+            row.append(self._bracketed())
+            token = self.peek()
+            if token.kind == T.COMMA:
+                self.advance()
+                continue
+            if token.kind == T.ROWSEP:
+                self.advance()
+                rows.append(row)
+                row = []
+                continue
+            rows.append(row)
+            break
+        self._close(opener, T.RBRACKET, "']'")
+        self.leave()
+        widths = {len(r) for r in rows}
+        if len(widths) > 1:
+            self.fail(f"the rows of a matrix must be equally long (found rows of "
+                      f"{', '.join(str(len(r)) for r in rows)} entries)", opener.span)
+        return S.MatrixLiteral(self.span_from(opener), rows)
+
     def parse_call(self, name: Token) -> S.Node:
         opener = self.advance()
         self.enter(opener)
@@ -403,6 +434,8 @@ class _StatementParser:
             self.fail("unmatched ')'")
         if kind == T.RANGLE:
             self.fail("unmatched '>'")
+        if kind == T.RBRACKET:
+            self.fail("unmatched ']'")
         if kind == T.EQUALS:
             self.fail("only a name or a function head f(x, ...) can be assigned",
                       hint="to compare two values write check L == R")

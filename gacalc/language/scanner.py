@@ -82,6 +82,7 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
     if isinstance(source, str):
         source = Source(source, filename)
     depth = 0
+    brackets = 0          # open '[' (a ';' inside separates matrix rows)
     previous_kind = None
     comparing = False     # after assume/given, '<' and '>' compare: they open nothing
     for token in raw_tokens(source):
@@ -98,10 +99,15 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
             comparing = True
         elif kind in _OPENERS and not (comparing and kind == T.LANGLE):
             depth += 1
+            brackets += kind == T.LBRACKET
         elif kind in _CLOSERS and not (comparing and kind == T.RANGLE):
             depth = max(0, depth - 1)
+            brackets = max(0, brackets - (kind == T.RBRACKET))
+        elif kind == T.SEMICOLON and brackets > 0:
+            token = Token(T.ROWSEP, token.text, token.value, token.span)
+            kind = T.ROWSEP
         elif kind == T.SEMICOLON:
-            depth = 0         # a ';' always ends a statement (unclosed brackets error)
+            depth = 0         # a ';' ends a statement (unclosed brackets error)
             comparing = False
         previous_kind = kind
         yield token
@@ -117,6 +123,7 @@ def needs_more_input(text: str) -> bool:
     """True when typed text cannot be complete yet: open brackets, or the last line ends
     with an operator or comma.  For REPLs that accept multi-line input."""
     depth = 0
+    brackets = 0
     last = None
     comparing = False
     for token in raw_tokens(Source(text)):
@@ -126,8 +133,12 @@ def needs_more_input(text: str) -> bool:
             comparing = True
         elif token.kind in _OPENERS and not (comparing and token.kind == T.LANGLE):
             depth += 1
+            brackets += token.kind == T.LBRACKET
         elif token.kind in _CLOSERS and not (comparing and token.kind == T.RANGLE):
             depth = max(0, depth - 1)
+            brackets = max(0, brackets - (token.kind == T.RBRACKET))
+        elif token.kind == T.SEMICOLON and brackets > 0:
+            continue          # a row separator: the matrix is still open
         elif token.kind == T.SEMICOLON:
             depth = 0
             comparing = False
@@ -149,8 +160,8 @@ def token_error(token: Token) -> GacalcSyntaxError:
         message = "stray '_': names cannot start or end with an underscore"
     elif char == "!":
         message = "unexpected '!'"
-    elif char in "[]{}":
-        message = f"unexpected '{char}': group with ( and )"
+    elif char in "{}":
+        message = f"unexpected '{char}': group with ( and ); matrices are written [a, b; c, d]"
     elif char == "'":
         message = "unexpected \"'\": strings are written in double quotes"
     elif char == "@" or char == "$" or char == "`" or char == "?" or char == "&" or char == "%":

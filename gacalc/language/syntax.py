@@ -109,6 +109,13 @@ class Index(Node):
     indices: list
 
 
+@dataclass
+class MatrixLiteral(Node):
+    """[a, b; c, d]: rows of entries (scalars; i is the complex unit inside)."""
+
+    rows: list                # list of lists of Node
+
+
 # Statements --------------------------------------------------------------------
 @dataclass
 class Statement(Node):
@@ -240,7 +247,11 @@ def walk(node: Node):
             if isinstance(value, Node):
                 pending.append(value)
             elif isinstance(value, list):
-                pending.extend(item for item in value if isinstance(item, Node))
+                for item in value:
+                    if isinstance(item, list):   # the rows of a matrix literal
+                        pending.extend(entry for entry in item if isinstance(entry, Node))
+                    elif isinstance(item, Node):
+                        pending.append(item)
 
 
 def unparse(node: Node, unicode: bool = False, parenthesize: bool = False) -> str:
@@ -345,6 +356,10 @@ class _Unparser:
         left, right = self.op(T.LANGLE), self.op(T.RANGLE)
         grade = "" if node.grade is None else str(node.grade)
         return f"{left}{self.text(node.operand)}{right}{grade}", _PREC_ATOM
+
+    def visit_MatrixLiteral(self, node):
+        rows = "; ".join(", ".join(self.text(entry) for entry in row) for row in node.rows)
+        return f"[{rows}]", _PREC_ATOM
 
     def visit_Call(self, node):
         args = ", ".join(self.text(arg) for arg in node.args)

@@ -77,6 +77,7 @@ COMMA = "COMMA"
 SEMICOLON = "SEMICOLON"
 ERROR = "ERROR"
 EOF = "EOF"  # produced by the scanner only, never matched by a pattern
+ROWSEP = "ROWSEP"  # produced by the scanner only: a ';' inside [ ] separates matrix rows
 
 # Spellings of operators and punctuation: (ASCII, Unicode, other accepted spellings).
 OPERATOR_SPELLINGS: dict[str, tuple[str, ...]] = {
