@@ -31,12 +31,15 @@ class MatrixKind(ValueKind):
         return frozenset().union(*(e.free_symbols for e in value))
 
     def simplify(self, value, conditions, budget):
-        """Each entry through gacalc.simplify, real and imaginary parts apart (the
+        """Each complex entry through gacalc.simplify, real and imaginary parts apart (the
         complex a + b i as the central a + b e123, Pauli picture)."""
         from gacalc.simplify import simplify
 
         entries, complete = [], True
         for x in value:
+            if not x.has(sympy.I):     # real entries stay as computed (as before)
+                entries.append(x)
+                continue
             outcome = simplify(_complex_mv(x), conditions, budget)
             complete = complete and outcome.complete
             entries.append(outcome.value.scalar_part() + sympy.I * outcome.value["e123"])
