@@ -24,8 +24,8 @@ from gacalc import __version__
 from gacalc.language import syntax as S
 from gacalc.runner import Style, error_text, styled_result
 
-PROMPT = "gac> "
-CONTINUATION = "...> "
+PROMPT = "cl3: "   # our own; no well-known program answers with it
+CONTINUATION = "...: "
 WELCOME = (f"gacalc {__version__}: geometric algebra of 3-D space, Cl(3,0). "
            "Type help for the language, Ctrl-D to leave.")
 _WORD_BEFORE_CURSOR = re.compile(r"[^\W\d_]\w*\Z")

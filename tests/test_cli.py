@@ -54,7 +54,7 @@ def test_piped_statements_run_as_a_script_without_prompt_or_escapes():
     script = "vector a\ncheck a a == a . a\nrotate(rotor(e12, pi/2), e1)\n"
     status, out, err = gacalc(stdin=script)
     assert status == 0, err
-    assert "\x1b" not in out and "gac>" not in out
+    assert "\x1b" not in out and "cl3:" not in out
     # a quarter turn in the e12 plane takes e1 to e2 (DESIGN.md rotor convention)
     assert out.splitlines()[-2:] == ["e2", "1 passed, 0 failed"]
 

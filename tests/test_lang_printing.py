@@ -90,8 +90,9 @@ def test_scalar_text():
 def test_matrix_and_quaternion_text():
     from sympy.algebras.quaternion import Quaternion
 
-    assert value_text(sympy.Matrix([[1, -2], [30, 4]])) == "[ 1   -2 ]\n[ 30  4  ]"
-    assert value_text(Quaternion(1, 0, -2, sympy.Symbol("t") + 1)) == "1 - 2 j + (t + 1) k"
+    # matrices and quaternions print as input that reads back (issue 16)
+    assert value_text(sympy.Matrix([[1, -2], [30, 4]])) == "[1, -2; 30, 4]"
+    assert value_text(Quaternion(1, 0, -2, sympy.Symbol("t") + 1)) == "quaternion(1, 0, -2, t + 1)"
 
 
 # Round trip -------------------------------------------------------------------------

@@ -36,17 +36,17 @@ def test_interrupt_keeps_the_session(tmp_path):
     child = pexpect.spawn(program, args + ["--ascii", "--no-color"], env=env,
                           encoding="utf-8", timeout=TIMEOUT, dimensions=(30, 100))
     try:
-        child.expect("gac>")
+        child.expect("cl3:")
         child.send("vector a\r")
         child.expect(r"vector a = a1\*e1 \+ a2\*e2 \+ a3\*e3")
-        child.expect("gac>")
+        child.expect("cl3:")
         # a a = a . a = |a|^2 (the square of a vector is its squared length)
         child.send("a a\r")
         child.expect(r"a1\^2 \+ a2\^2 \+ a3\^2")
-        child.expect("gac>")
+        child.expect("cl3:")
         child.send("multivector M\r")
         child.expect("M123")
-        child.expect("gac>")
+        child.expect("cl3:")
         # One statement that runs for many seconds within every size limit: a script of
         # thousands of powers of a general multivector, read by `use`.
         child.send(f'use "{long_script}"\r')
@@ -55,13 +55,13 @@ def test_interrupt_keeps_the_session(tmp_path):
         time.sleep(1.0)
         child.sendcontrol("c")
         child.expect("interrupted")
-        child.expect("gac>")
+        child.expect("cl3:")
         child.send("a\r")
         child.expect(r"a1\*e1 \+ a2\*e2 \+ a3\*e3")
-        child.expect("gac>")
+        child.expect("cl3:")
         child.send("big\r")                 # never assigned: a fresh scalar symbol
         child.expect("note: big is a new scalar symbol")
-        child.expect("gac>")
+        child.expect("cl3:")
         child.sendcontrol("d")
         child.expect(pexpect.EOF)
     finally:

@@ -48,7 +48,7 @@ def drive(keys: str, history=None, session=None, unicode=False):
 
 
 def test_prompt_texts_are_our_own():
-    assert PROMPT == "gac> " and CONTINUATION == "...> "
+    assert PROMPT == "cl3: " and CONTINUATION == "...: "
 
 
 def test_declare_compute_and_leave_with_ctrl_d():

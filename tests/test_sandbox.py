@@ -285,7 +285,7 @@ def no_processes(monkeypatch):
     'getattr(x, "y")',
     'sympify("1")',
     'lambda: 1',
-    '[c for c in x]',
+    '{c for c in x}',          # ([c for c in x] reads as a 1x1 matrix of symbols now)
     '{1: 2}',
     "'single quoted'",
     '"\\x41"',

@@ -30,7 +30,7 @@ import sympy
 
 from .context import current, registry
 from .generators import GeneratorInfo, GeneratorRegistry, owner_of
-from .spelling import input_text
+from .spelling import input_text, rational_factors_behind
 
 
 class DomainError(ValueError):
@@ -272,7 +272,7 @@ class Coef:
         if self.expr is not None:
             return ascii_text(self.expr)
         reg, num, den = self._own_parts()
-        t = str(reg.display(num))
+        t = rational_factors_behind(str(reg.display(num)))
         if den is None:
             return t
         if len(num) > 1:

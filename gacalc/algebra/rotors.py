@@ -31,7 +31,7 @@ import sympy
 
 from .context import current
 from .multivector import as_multivector as _as_multivector, ONE, AlgebraError, I, Multivector, e12, simplified_scalar
-from .signs import certified_sign
+from .signs import box_of, certified_sign, sign_on
 from .versors import EVEN, _grade_words, classify_versor
 
 FLOAT_TOLERANCE = 1e-9
@@ -332,8 +332,9 @@ def slerp(R1, R2, t, conditions=()) -> Multivector:
     """Spherical linear interpolation R1 (R̃1 R2)^t on the shorter arc.
 
     t = 0 gives R1, t = 1 gives R2 (or −R2, the same rotation, when the arc was flipped).
-    Shorter arc: when ⟨R̃1 R2⟩₀ < 0, R2 is replaced by −R2.  When that sign cannot be
-    decided (symbolic rotors), the rotors are used as given.
+    Shorter arc: when ⟨R̃1 R2⟩₀ < 0, R2 is replaced by −R2.  With symbolic rotors that
+    sign is proved on the ranges among the conditions; when it cannot be decided, the
+    rotors are used as given.
     """
     R1 = _require_rotor(R1, "slerp", conditions)
     R2 = _require_rotor(R2, "slerp", conditions)
@@ -341,7 +342,9 @@ def slerp(R1, R2, t, conditions=()) -> Multivector:
     D = R1.rev() * R2
     d0 = _simplified(D[0])
     if d0.free_symbols:
-        negative = d0.is_negative
+        # a sign proved on the stated ranges (scalar t in (pi, 2 pi)), else sympy's own
+        proved = sign_on(d0, box_of(conditions))
+        negative = proved == -1 if proved is not None else d0.is_negative
     else:
         negative = certified_sign(d0) == -1  # a proved sign; an undecided one keeps R2
     if negative is True:

@@ -714,8 +714,15 @@ def rotor_angle_plane(r: Multivector, s: _Simplifier | None = None):
     if half is not None:
         u, plane = half
         angle = s.scalar(2 * u)
-        note = (f"read off R = cos(angle/2) - sin(angle/2)*P; the principal value "
-                f"2*atan2(|<R>2|, <R>0) only for 0 <= {_text(angle)} <= 2*pi")
+        principal = s.scalar(2 * sympy.atan2(sympy.sqrt(s.scalar(-(bpart * bpart)[0])), a))
+        if s.zero(principal - angle) is True:   # proved under the stated ranges
+            note = ("read off R = cos(angle/2) - sin(angle/2)*P; equal to the principal "
+                    "value 2*atan2(|<R>2|, <R>0) under the stated range")
+        else:
+            note = (f"read off R = cos(angle/2) - sin(angle/2)*P, assuming the range "
+                    f"0 <= {_text(angle)} <= 2*pi; only there is it the principal value "
+                    f"2*atan2(|<R>2|, <R>0) (state a range to prove it, e.g. "
+                    f"scalar t in (0, 2 pi))")
         return angle, plane, note, None
     b2 = s.scalar(-(bpart * bpart)[0])
     bnorm = sympy.sqrt(b2)

@@ -405,9 +405,16 @@ def _from_pauli(ctx, *args):
 
 
 @builtin("quaternion(R)", "Hamilton quaternion of an even multivector (i = -e23, "
-         "j = -e31, k = -e12)", "quaternion(rotor(e12, pi/2))", "representations")
-def _quaternion(ctx, a):
-    return _representations().quaternion(ctx.multivector(0))
+         "j = -e31, k = -e12), or the quaternion w + x i + y j + z k of quaternion(w, x, y, z)",
+         "quaternion(rotor(e12, pi/2))", "representations", min_args=1, max_args=4)
+def _quaternion(ctx, *args):
+    if len(args) == 1:
+        return _representations().quaternion(ctx.multivector(0))
+    if len(args) != 4:
+        ctx.fail("quaternion takes an even multivector, or four scalars w, x, y, z")
+    from sympy.algebras.quaternion import Quaternion
+
+    return Quaternion(*(ctx.scalar(i) for i in range(4)))
 
 
 @builtin("from_quaternion(q)", "even multivector of a quaternion (a quaternion value, or "

@@ -117,6 +117,7 @@ class Evaluator:
         self.extra_conditions = list(extra_conditions or ())
         self.notes: list[tuple[str, Span | None]] = []
         self.call_depth = 0
+        self.matrix_depth = 0     # inside [ ]: i is the complex unit
         self.depth = 0
         self.clock = clock
 
@@ -153,6 +154,11 @@ class Evaluator:
     def lookup(self, name: str, span: Span, frame: dict | None):
         if frame is not None and name in frame:
             return frame[name]
+        if self.matrix_depth and name == "i":
+            return blade("123")     # the complex unit of a matrix entry
+        if self.matrix_depth and name == "I":
+            raise GacalcNameError("inside [ ] the complex unit is written i; I is the "
+                                  "pseudoscalar e123, not a matrix entry", span)
         state = self.state
         if name in state.values:
             return state.values[name]
@@ -203,7 +209,22 @@ class Evaluator:
             total = self.add(total, value, sign, term.span)
         return total
 
+    def _coerced(self, left, right):
+        """(left, right) in one kind when one side's kind takes the other (a multivector
+        next to a Pauli matrix); unchanged otherwise."""
+        left_kind, right_kind = kind_of(left), kind_of(right)
+        if left_kind is None or right_kind is None or left_kind is right_kind:
+            return left, right
+        converted = getattr(right_kind, "coerce", lambda v, like: None)(left, right)
+        if converted is not None:
+            return converted, right
+        converted = getattr(left_kind, "coerce", lambda v, like: None)(right, left)
+        if converted is not None:
+            return left, converted
+        return left, right
+
     def add(self, left, right, sign: int, span: Span):
+        left, right = self._coerced(left, right)
         kind = kind_of(left)
         if kind is not None and kind_of(right) is kind:
             total = kind.add(left, right, sign, span)
@@ -228,6 +249,11 @@ class Evaluator:
         first offered to the left one's act_on (a linear map applied to a multivector);
         otherwise a scalar scales any value."""
         left_kind, right_kind = kind_of(left), kind_of(right)
+        if left_kind is not right_kind and not (
+                is_multivector(left) and left.is_scalar() or
+                is_multivector(right) and right.is_scalar()):
+            left, right = self._coerced(left, right)
+            left_kind, right_kind = kind_of(left), kind_of(right)
         result = None
         if left_kind is not None and left_kind is right_kind:
             result = left_kind.multiply(left, right, span)
@@ -342,6 +368,27 @@ class Evaluator:
         return self.multiply(left, right, span)
 
     # Lists and indexing ------------------------------------------------------------
+    def _eval_MatrixLiteral(self, node: S.MatrixLiteral, frame):
+        """[a, b; c, d] as a matrix value.  Entries are scalars; inside the brackets i is
+        the complex unit (an entry a + b i), computed as the central a + b e123, which
+        multiplies exactly like a complex number (I^2 = -1, I commutes with all)."""
+        self.matrix_depth += 1
+        try:
+            rows = []
+            for row in node.rows:
+                entries = []
+                for entry in row:
+                    value = self.evaluate(entry, frame)
+                    if not is_multivector(value) or not set(value.grades()) <= {0, 3}:
+                        raise GacalcTypeError("a matrix entry is a scalar (complex ones "
+                                              f"written with i), not {describe_value(value)}",
+                                              entry.span)
+                    entries.append(value.scalar_part() + sympy.I * value["e123"])
+                rows.append(entries)
+        finally:
+            self.matrix_depth -= 1
+        return sympy.ImmutableMatrix(rows)
+
     def _eval_ListLiteral(self, node: S.ListLiteral, frame):
         from gacalc.values.sequence import ValueList
 

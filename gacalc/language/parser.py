@@ -35,6 +35,8 @@ MAX_NUMBER_DIGITS = 1000
 _WEDGE_KINDS = (T.WEDGE, T.LCONTRACT, T.RCONTRACT, T.INNER)
 _PRIMARY_START = frozenset(T.NAME_KINDS | {T.NUMBER, T.LPAREN, T.LANGLE})
 _STATEMENT_END = frozenset({T.NEWLINE, T.SEMICOLON, T.EOF})
+_LBRACKET, _RBRACKET = T.LBRACKET, T.RBRACKET   # square brackets: closed interval ends
+_RELATIONS = {T.EQUALS: "=", T.LANGLE: "<", T.LESSEQ: "<=", T.RANGLE: ">", T.GREATEREQ: ">="}
 
 _DESCRIPTIONS = {
     T.EOF: "the end of the input", T.NEWLINE: "the end of the line",
@@ -60,6 +62,7 @@ class _StatementParser:
         self.terminator = terminator
         self.position = 0
         self.depth = 0
+        self.comparing = False   # in a condition: a '<' after an operand compares
 
     # Token access -------------------------------------------------------------
     def peek(self, offset: int = 0) -> Token:
@@ -137,6 +140,8 @@ class _StatementParser:
                 self.advance()
                 ops.append("*" if token.kind == T.STAR else "/")
             elif token.kind in _PRIMARY_START:
+                if token.kind == T.LANGLE and self.comparing:
+                    break           # 0 < a: a comparison, not a grade bracket
                 if token.kind == T.NUMBER and self.previous().kind == T.NUMBER:
                     self.fail(f"two numbers in a row: write {self.previous().text}*{token.text} "
                               "for a product", token.span)
@@ -224,10 +229,10 @@ class _StatementParser:
         self.enter(opener)
         if self.check(T.RBRACKET):
             self.fail("empty index: write X[1] for the first item")
-        indices = [self.expression()]
+        indices = [self._bracketed()]
         while self.check(T.COMMA):
             self.advance()
-            indices.append(self.expression())
+            indices.append(self._bracketed())
         self._close(opener, T.RBRACKET, "']'")
         self.leave()
         return S.Index(self.span_from(start), base, indices)
@@ -273,7 +278,7 @@ class _StatementParser:
             self.enter(token)
             if self.check(T.RPAREN):
                 self.fail("empty parentheses: put an expression inside ( )")
-            inner = self.expression()
+            inner = self._bracketed()
             if self.check(T.COMMA):
                 items = [inner]
                 while self.check(T.COMMA):
@@ -282,7 +287,7 @@ class _StatementParser:
                         break                 # a trailing comma: (a, b,)
                     if self.check(T.COMMA):
                         self.fail("missing item before ','")
-                    items.append(self.expression())
+                    items.append(self._bracketed())
                 self._close(token, T.RPAREN, "')'")
                 self.leave()
                 return S.ListLiteral(self.span_from(token), items)
@@ -291,7 +296,17 @@ class _StatementParser:
             return inner
         if kind == T.LANGLE:
             return self.parse_grade(token)
+        if kind == T.LBRACKET:
+            return self.parse_matrix(token)
         self._operand_expected(token)
+
+    def _bracketed(self) -> S.Node:
+        """An expression inside brackets, where '<' opens a grade bracket again."""
+        saved, self.comparing = self.comparing, False
+        try:
+            return self.expression()
+        finally:
+            self.comparing = saved
 
     def _operand_expected(self, token: Token):
         before = self.previous()
@@ -325,7 +340,7 @@ class _StatementParser:
         self.enter(opener)
         if self.check(T.RANGLE):
             self.fail("empty grade brackets: write <A> or <A>k")
-        inner = self.expression()
+        inner = self._bracketed()
         close = self.peek()
         self._close(opener, T.RANGLE, "'>'")
         self.leave()
@@ -338,6 +353,36 @@ class _StatementParser:
             grade = int(after.text)
         return S.GradePart(self.span_from(opener), inner, grade)
 
+    def parse_matrix(self, opener: Token) -> S.Node:
+        """[a, b; c, d]: entries separated by ',', rows by ';' (all rows equally long)."""
+        self.advance()
+        self.enter(opener)
+        if self.check(T.RBRACKET):
+            self.fail("empty matrix: write its entries, [a, b; c, d]")
+        rows, row = [], []
+        while True:
+            if self.peek().kind in (T.COMMA, T.ROWSEP, T.RBRACKET):
+                self.fail("missing matrix entry")
+            row.append(self._bracketed())
+            token = self.peek()
+            if token.kind == T.COMMA:
+                self.advance()
+                continue
+            if token.kind == T.ROWSEP:
+                self.advance()
+                rows.append(row)
+                row = []
+                continue
+            rows.append(row)
+            break
+        self._close(opener, T.RBRACKET, "']'")
+        self.leave()
+        widths = {len(r) for r in rows}
+        if len(widths) > 1:
+            self.fail(f"the rows of a matrix must be equally long (found rows of "
+                      f"{', '.join(str(len(r)) for r in rows)} entries)", opener.span)
+        return S.MatrixLiteral(self.span_from(opener), rows)
+
     def parse_call(self, name: Token) -> S.Node:
         opener = self.advance()
         self.enter(opener)
@@ -346,7 +391,7 @@ class _StatementParser:
             while True:
                 if self.check(T.COMMA):
                     self.fail("missing argument before ','")
-                args.append(self.expression())
+                args.append(self._bracketed())
                 if self.check(T.COMMA):
                     self.advance()
                     if self.check(T.RPAREN):
@@ -389,6 +434,8 @@ class _StatementParser:
             self.fail("unmatched ')'")
         if kind == T.RANGLE:
             self.fail("unmatched '>'")
+        if kind == T.RBRACKET:
+            self.fail("unmatched ']'")
         if kind == T.EQUALS:
             self.fail("only a name or a function head f(x, ...) can be assigned",
                       hint="to compare two values write check L == R")
@@ -478,6 +525,8 @@ class _StatementParser:
         keyword = self.advance()
         names: list[S.Param] = []
         unit = False
+        intervals: dict = {}
+        ranged = 0
         while True:
             token = self.peek()
             if token.kind in _STATEMENT_END:
@@ -491,6 +540,18 @@ class _StatementParser:
             if self.check(T.NAME, "unit"):
                 self.advance()
                 unit = True
+            if self.check(T.NAME, "in"):
+                if keyword.value != "scalar":
+                    self.fail(f"a range 'in (low, high)' belongs to scalars, not to a "
+                              f"{keyword.value}")
+                self.advance()
+                interval = self._interval()
+                for param in names[ranged:]:   # the names since the last range share it
+                    intervals[param.name] = interval
+                ranged = len(names)
+                if self.check(T.COMMA):
+                    self.advance()
+                    continue
             if not self.at_end():
                 following = self.peek()
                 if following.is_name:
@@ -500,7 +561,7 @@ class _StatementParser:
             break
         if len({param.name for param in names}) != len(names):
             self.fail("a name is declared twice in the same statement", keyword.span)
-        return S.Declare(keyword.span, keyword.value, names, unit)
+        return S.Declare(keyword.span, keyword.value, names, unit, intervals=intervals)
 
     def _dependence(self, kind: str) -> tuple:
         """The scalars a declared name depends on: the (t) of 'vector r(t)'."""
@@ -525,27 +586,73 @@ class _StatementParser:
             return tuple(params)
 
     def _conditions(self, keyword: str) -> list[S.Condition]:
+        """C, C, ...: each an equation L = R or a range chain such as 0 < a < pi."""
         conditions = []
         while True:
             start = self.peek()
             if start.kind in _STATEMENT_END:
-                self.fail(f"expected a condition L = R after '{self.previous().text}'")
-            left = self.expression()
-            if self.check(T.EQEQ):
-                self.fail("a condition is written with a single '=': L = R")
-            if not self.check(T.EQUALS):
-                if self.at_end():
-                    self.fail(f"a condition after '{keyword}' is written L = R")
-                self._trailing(self.peek())
-            self.advance()
-            if self.at_end():
-                self.fail("expected the right-hand side of the condition after '='")
-            right = self.expression()
-            conditions.append(S.Condition(self.span_from(start), left, right))
+                self.fail(f"expected a condition L = R after '{self.previous().text}' "
+                          "(or a range such as t > 0)")
+            conditions.extend(self._condition_chain(keyword))
             if self.check(T.COMMA):
                 self.advance()
                 continue
             return conditions
+
+    def _comparand(self) -> S.Node:
+        saved, self.comparing = self.comparing, True
+        try:
+            return self.expression()
+        finally:
+            self.comparing = saved
+
+    def _condition_chain(self, keyword: str) -> list[S.Condition]:
+        start = self.peek()
+        left = self._comparand()
+        if self.check(T.EQEQ):
+            self.fail("a condition is written with a single '=': L = R")
+        links = []
+        while self.peek().kind in _RELATIONS:
+            op = self.advance()
+            if self.at_end() or self.check(T.COMMA):
+                self.fail(f"expected the right-hand side of the condition after '{op.text}'")
+            links.append((op, self._comparand()))
+        if not links:
+            if self.at_end():
+                self.fail(f"a condition after '{keyword}' is written L = R (or as a range "
+                          "such as t > 0 or 0 < t < pi)")
+            self._trailing(self.peek())
+        relations = [_RELATIONS[op.kind] for op, _ in links]
+        if "=" in relations and len(relations) > 1:
+            self.fail("an equation L = R cannot be chained with other relations",
+                      links[1][0].span)
+        if len(relations) > 1 and len({r[0] for r in relations}) > 1:
+            self.fail("a range chain runs one way: write 0 < a < pi or pi > a > 0",
+                      links[1][0].span)
+        span = self.span_from(start)
+        out, lower = [], left
+        for (op, upper), relation in zip(links, relations):
+            out.append(S.Condition(span, lower, upper, relation=relation))
+            lower = upper
+        return out
+
+    def _interval(self) -> S.Interval:
+        """(low, high), [low, high], (low, high], [low, high) after 'in'."""
+        opener = self.peek()
+        if opener.kind not in (T.LPAREN, _LBRACKET):
+            self.fail("a range after 'in' is an interval: (low, high), [low, high], "
+                      "(low, high] or [low, high)")
+        self.advance()
+        low = self._bracketed()
+        self.expect(T.COMMA, "an interval has two ends: (low, high)")
+        high = self._bracketed()
+        closer = self.peek()
+        if closer.kind not in (T.RPAREN, _RBRACKET):
+            self.fail(f"expected ')' or ']' to close the interval opened at "
+                      f"{opener.span.line}:{opener.span.column}, found {describe(closer)}")
+        self.advance()
+        return S.Interval(self.span_from(opener), low, high, opener.kind == T.LPAREN,
+                          closer.kind == T.RPAREN)
 
     def _statement_check(self) -> S.Statement:
         keyword = self.advance()

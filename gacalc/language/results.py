@@ -186,8 +186,8 @@ class DeclarationResult(Result):
             text = value_text(value, unicode, 10**6)
             joint = "\n" if "\n" in text else " "     # a matrix's rows start below
             lines.append(f"{self.declared_kind} {name} ={joint}{text}")
-        for condition in self.conditions:
-            lines.append(f"  with {condition.text}")
+        for text in dict.fromkeys(condition.text for condition in self.conditions):
+            lines.append(f"  with {text}")   # a range's two ends share one text
         return "\n".join(lines)
 
 

@@ -82,7 +82,9 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
     if isinstance(source, str):
         source = Source(source, filename)
     depth = 0
+    brackets = 0          # open '[' (a ';' inside separates matrix rows)
     previous_kind = None
+    comparing = False     # after assume/given, '<' and '>' compare: they open nothing
     for token in raw_tokens(source):
         kind = token.kind
         if kind in T.TRIVIA_KINDS:
@@ -92,12 +94,21 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
                 continue
             if previous_kind == T.NEWLINE:
                 continue      # blank lines are one separator
-        elif kind in _OPENERS:
+            comparing = False
+        elif kind == T.KEYWORD and token.value in T.COMPARISON_KEYWORDS:
+            comparing = True
+        elif kind in _OPENERS and not (comparing and kind == T.LANGLE):
             depth += 1
-        elif kind in _CLOSERS:
+            brackets += kind == T.LBRACKET
+        elif kind in _CLOSERS and not (comparing and kind == T.RANGLE):
             depth = max(0, depth - 1)
+            brackets = max(0, brackets - (kind == T.RBRACKET))
+        elif kind == T.SEMICOLON and brackets > 0:
+            token = Token(T.ROWSEP, token.text, token.value, token.span)
+            kind = T.ROWSEP
         elif kind == T.SEMICOLON:
-            depth = 0         # a ';' always ends a statement (unclosed brackets error)
+            depth = 0         # a ';' ends a statement (unclosed brackets error)
+            comparing = False
         previous_kind = kind
         yield token
     end = len(source.text)
@@ -112,16 +123,25 @@ def needs_more_input(text: str) -> bool:
     """True when typed text cannot be complete yet: open brackets, or the last line ends
     with an operator or comma.  For REPLs that accept multi-line input."""
     depth = 0
+    brackets = 0
     last = None
+    comparing = False
     for token in raw_tokens(Source(text)):
         if token.kind in T.TRIVIA_KINDS or token.kind == T.NEWLINE:
             continue
-        if token.kind in _OPENERS:
+        if token.kind == T.KEYWORD and token.value in T.COMPARISON_KEYWORDS:
+            comparing = True
+        elif token.kind in _OPENERS and not (comparing and token.kind == T.LANGLE):
             depth += 1
-        elif token.kind in _CLOSERS:
+            brackets += token.kind == T.LBRACKET
+        elif token.kind in _CLOSERS and not (comparing and token.kind == T.RANGLE):
             depth = max(0, depth - 1)
+            brackets = max(0, brackets - (token.kind == T.RBRACKET))
+        elif token.kind == T.SEMICOLON and brackets > 0:
+            continue          # a row separator: the matrix is still open
         elif token.kind == T.SEMICOLON:
             depth = 0
+            comparing = False
         last = token.kind
     return depth > 0 or last in T.CONTINUATION_KINDS
 
@@ -140,8 +160,8 @@ def token_error(token: Token) -> GacalcSyntaxError:
         message = "stray '_': names cannot start or end with an underscore"
     elif char == "!":
         message = "unexpected '!'"
-    elif char in "[]{}":
-        message = f"unexpected '{char}': group with ( and )"
+    elif char in "{}":
+        message = f"unexpected '{char}': group with ( and ); matrices are written [a, b; c, d]"
     elif char == "'":
         message = "unexpected \"'\": strings are written in double quotes"
     elif char == "@" or char == "$" or char == "`" or char == "?" or char == "&" or char == "%":

@@ -138,6 +138,9 @@ class StatementExecutors:
             texts = [text] + [f"{name} stays unit as {v} varies" for v in param.depends]
             conditions = [Condition(expr, texts[min(i, len(texts) - 1)], "declaration")
                           for i, expr in enumerate(exprs)]
+            if name in statement.intervals:
+                conditions.extend(self._interval_conditions(statement.intervals[name], name,
+                                                            value, state, results, statement))
             state.values[name] = value
             state.functions.pop(name, None)
             state.declarations[name] = kind
@@ -158,6 +161,36 @@ class StatementExecutors:
         results.append(self._result(DeclarationResult, statement, declared_kind=kind,
                                     values=created, conditions=all_conditions))
 
+    def _interval_conditions(self, interval, name, value, state, results, statement) -> list:
+        """scalar a in (low, high]: the two ranges low < a, a <= high."""
+        evaluator = Evaluator(state, None, self._clock)
+        try:
+            low = evaluator.evaluate(interval.low)
+            high = evaluator.evaluate(interval.high)
+        finally:
+            self._flush_notes(evaluator, results, statement)
+        for end, node in ((low, interval.low), (high, interval.high)):
+            if not is_multivector(end) or any(g != 0 for g, _ in end.items()) \
+                    or end[0].free_symbols:
+                raise GacalcTypeError("the ends of a range are numbers (pi/2, 3, ...)",
+                                      node.span)
+        from gacalc.algebra.signs import certified_sign
+
+        width = certified_sign(high[0] - low[0])
+        if width != 1:
+            raise GacalcMathError(f"the range {' '.join(interval.span.text.split())} is "
+                                  "empty: its low end must be below its high end",
+                                  interval.span)
+        text = f"{name} in {' '.join(interval.span.text.split())}"
+        import sympy
+
+        out = []
+        lower = sympy.StrictGreaterThan if interval.low_open else sympy.GreaterThan
+        upper = sympy.StrictGreaterThan if interval.high_open else sympy.GreaterThan
+        out.append(Condition(lower(value[0] - low[0], 0), text, "declaration"))
+        out.append(Condition(upper(high[0] - value[0], 0), text, "declaration"))
+        return out
+
     def _conditions(self, nodes, state, results, statement, origin) -> list[Condition]:
         out = []
         for node in nodes:
@@ -172,6 +205,10 @@ class StatementExecutors:
             finally:
                 self._flush_notes(evaluator, results, statement)
             text = " ".join(node.span.text.split())
+            if node.relation != "=":
+                out.extend(_range_conditions(difference, node.relation, text, origin,
+                                             node.span, results, self._note(statement, "")))
+                continue
             exprs = [expr for _, expr in difference.items()]
             if not exprs:
                 results.append(self._note(statement, f"the condition {text} always holds"))
@@ -326,6 +363,36 @@ class StatementExecutors:
 
 
 # Helpers ------------------------------------------------------------------------------
+_RANGE_RELATIONS = {">": (1, True), ">=": (1, False), "<": (-1, True), "<=": (-1, False)}
+
+
+def _range_conditions(difference, relation, text, origin, span, results, note) -> list:
+    """The range L OP R as a sympy relational d > 0 or d >= 0 (d = +-(L - R))."""
+    import sympy
+
+    if any(grade != 0 for grade, _ in difference.items()):
+        raise GacalcTypeError(f"a range compares scalars: {text}", span)
+    sign, strict = _RANGE_RELATIONS[relation]
+    d = sign * difference[0]
+    relational = (sympy.StrictGreaterThan if strict else sympy.GreaterThan)(d, 0)
+    if relational is sympy.true:
+        note.message = f"the condition {text} always holds"
+        results.append(note)
+        return []
+    if relational is sympy.false:
+        raise GacalcMathError(f"the condition {text} can never hold", span)
+    if not d.is_number:
+        return [Condition(relational, text, origin)]
+    from gacalc.algebra.signs import certified_sign
+
+    proved = certified_sign(d)
+    if proved == 1 or (proved is None and not strict and d.equals(0)):
+        note.message = f"the condition {text} always holds"
+        results.append(note)
+        return []
+    raise GacalcMathError(f"the condition {text} can never hold", span)
+
+
 def _reserved_kind(name: str) -> str | None:
     import re
 
@@ -360,9 +427,28 @@ def _check_consistent(active: list, new: list):
     from gacalc.algebra import Multivector
     from gacalc.simplify.conditions import ConditionSet
 
-    probe = Multivector.scalar(sum(condition.expr for condition in new))
+    import sympy
+
+    probe = Multivector.scalar(sympy.Add(*[sympy.Symbol(str(s), real=True) for condition in new
+                                          for s in condition.expr.free_symbols]))
     connected = relevant_conditions(active, [probe])
     ConditionSet.of(tuple(condition.expr for condition in connected))
+    _check_ranges([c.expr for c in connected])
+
+
+def _check_ranges(exprs):
+    """Refuse ranges that leave a symbol no value (a > 1 with a < 0)."""
+    from gacalc.algebra import AlgebraError
+    from gacalc.algebra.signs import box_of, certified_sign
+
+    for symbol, (lo, hi, lo_open, hi_open) in box_of(exprs).items():
+        if not (lo.is_finite and hi.is_finite):
+            continue
+        width = hi - lo
+        empty = certified_sign(width) == -1 or (width == 0 and (lo_open or hi_open))
+        if empty:
+            raise AlgebraError(f"the ranges of {symbol} leave it no value (inconsistent); "
+                               "nothing is proved from them")
 
 
 def _differences(left, right, statement) -> list:

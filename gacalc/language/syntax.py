@@ -109,6 +109,13 @@ class Index(Node):
     indices: list
 
 
+@dataclass
+class MatrixLiteral(Node):
+    """[a, b; c, d]: rows of entries (scalars; i is the complex unit inside)."""
+
+    rows: list                # list of lists of Node
+
+
 # Statements --------------------------------------------------------------------
 @dataclass
 class Statement(Node):
@@ -147,14 +154,27 @@ class Declare(Statement):
     kind: str                 # one of tokens.DECLARATION_KINDS
     names: list               # list of Param (name + span)
     unit: bool
+    # scalar a in (0, pi), b, c in [0, 1]: name -> Interval
+    intervals: dict = field(default_factory=dict, kw_only=True)
+
+
+@dataclass
+class Interval(Node):
+    """(low, high) with open or closed ends: ``scalar a in (0, pi]``."""
+
+    low: Node
+    high: Node
+    low_open: bool
+    high_open: bool
 
 
 @dataclass
 class Condition(Node):
-    """L = R, a scalar side condition."""
+    """L = R, a scalar side condition; or a range L < R, L <= R, L > R, L >= R."""
 
     left: Node
     right: Node
+    relation: str = field(default="=", kw_only=True)   # one of = < <= > >=
 
 
 @dataclass
@@ -246,7 +266,11 @@ def walk(node: Node):
             if isinstance(value, Node):
                 pending.append(value)
             elif isinstance(value, list):
-                pending.extend(item for item in value if isinstance(item, Node))
+                for item in value:
+                    if isinstance(item, list):   # the rows of a matrix literal
+                        pending.extend(entry for entry in item if isinstance(entry, Node))
+                    elif isinstance(item, Node):
+                        pending.append(item)
 
 
 def unparse(node: Node, unicode: bool = False, parenthesize: bool = False) -> str:
@@ -351,6 +375,10 @@ class _Unparser:
         left, right = self.op(T.LANGLE), self.op(T.RANGLE)
         grade = "" if node.grade is None else str(node.grade)
         return f"{left}{self.text(node.operand)}{right}{grade}", _PREC_ATOM
+
+    def visit_MatrixLiteral(self, node):
+        rows = "; ".join(", ".join(self.text(entry) for entry in row) for row in node.rows)
+        return f"[{rows}]", _PREC_ATOM
 
     def visit_Call(self, node):
         args = ", ".join(self.text(arg) for arg in node.args)

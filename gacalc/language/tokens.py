@@ -66,6 +66,8 @@ SLASH = "SLASH"
 CARET = "CARET"
 REVERSE = "REVERSE"
 LANGLE = "LANGLE"
+LESSEQ = "LESSEQ"
+GREATEREQ = "GREATEREQ"
 RANGLE = "RANGLE"
 LPAREN = "LPAREN"
 RPAREN = "RPAREN"
@@ -75,6 +77,7 @@ COMMA = "COMMA"
 SEMICOLON = "SEMICOLON"
 ERROR = "ERROR"
 EOF = "EOF"  # produced by the scanner only, never matched by a pattern
+ROWSEP = "ROWSEP"  # produced by the scanner only: a ';' inside [ ] separates matrix rows
 
 # Spellings of operators and punctuation: (ASCII, Unicode, other accepted spellings).
 OPERATOR_SPELLINGS: dict[str, tuple[str, ...]] = {
@@ -90,6 +93,8 @@ OPERATOR_SPELLINGS: dict[str, tuple[str, ...]] = {
     SLASH: ("/", "/"),
     CARET: ("^", "^"),
     REVERSE: ("~", "\u2020", "\u02dc"),   # † ˜
+    LESSEQ: ("<=", "\u2264"),             # ≤ (ranges: assume 0 <= a)
+    GREATEREQ: (">=", "\u2265"),          # ≥
     LANGLE: ("<", "\u27e8"),              # ⟨
     RANGLE: (">", "\u27e9"),              # ⟩
     LPAREN: ("(", "("),
@@ -109,7 +114,7 @@ DECLARATION_KINDS = ("scalar", "vector", "bivector", "rotor", "multivector", "ma
 # target registered later is accepted too).
 EMIT_TARGETS = tuple(_export_targets.TARGETS)
 # Words with a meaning inside one statement only; elsewhere they are ordinary names.
-SOFT_KEYWORDS = ("unit", "none", "force", "auto", "off", "components", *EMIT_TARGETS)
+SOFT_KEYWORDS = ("unit", "none", "force", "in", "auto", "off", "components", *EMIT_TARGETS)
 CONSTANTS = ("pi", "I")
 
 GREEK_LETTERS = {
@@ -199,6 +204,9 @@ def token_patterns() -> list[tuple[str, str]]:
         (SLASH, _spellings(SLASH)),
         (CARET, _spellings(CARET)),
         (REVERSE, _spellings(REVERSE)),
+        # '<=' and '>=' (ranges), but '>==' stays '>' '==' (check <A>== 1)
+        (LESSEQ, "<=(?!=)|\u2264"),
+        (GREATEREQ, ">=(?!=)|\u2265"),
         (LANGLE, _spellings(LANGLE)),
         (RANGLE, _spellings(RANGLE)),
         (LPAREN, _spellings(LPAREN)),
@@ -238,6 +246,8 @@ PYGMENTS_TOKEN_TYPES: dict[str, str] = {
     SLASH: "Operator",
     CARET: "Operator",
     REVERSE: "Operator",
+    LESSEQ: "Operator",
+    GREATEREQ: "Operator",
     LANGLE: "Punctuation",
     RANGLE: "Punctuation",
     LPAREN: "Punctuation",
@@ -252,8 +262,11 @@ PYGMENTS_TOKEN_TYPES: dict[str, str] = {
 # Kinds the parser reads as names (the difference only matters to the highlighter
 # and to the evaluator's resolution of the name).
 NAME_KINDS = frozenset({NAME, BLADE, CONSTANT, BUILTIN})
+# Keywords after which '<' and '>' compare (ranges) rather than open grade brackets.
+COMPARISON_KEYWORDS = frozenset({"assume", "given"})
 # Kinds the scanner drops before parsing.
 TRIVIA_KINDS = frozenset({WHITESPACE, COMMENT})
 # A line ending right after one of these continues on the next line.
 CONTINUATION_KINDS = frozenset({WEDGE, LCONTRACT, RCONTRACT, EQEQ, EQUALS, INNER, PLUS,
+                                LESSEQ, GREATEREQ,
                                 MINUS, STAR, SLASH, CARET, COMMA})

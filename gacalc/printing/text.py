@@ -17,9 +17,9 @@ Layout (our own)
   (a space) for ``*`` (but keeps ``*`` before a parenthesis that follows a name, which
   would otherwise read as a call), ``−`` for minus, superscripts for integer powers
   (``θ²``) and Greek letters for Greek names (theta -> θ); gacalc reads it back too.
-- Matrices (from ``matrix`` and ``pauli``) print as bracketed rows and quaternions as
-  ``w + x i + y j + z k``; these are displays, not input (use ``from_matrix``,
-  ``from_quaternion`` with the entries).
+- Matrices print as matrix literals ``[a, b; c, d]`` (complex entries with the complex
+  unit ``i`` of matrix literals) and quaternions as ``quaternion(w, x, y, z)``: both read
+  back.  ``quaternion_text`` (``w + x i + y j + z k``) is the display ``show`` adds.
 
 This module knows nothing of parsing; it uses the core's ``coefficient_texts()`` (ASCII
 straight from the coefficient domain, fast) and only the Greek and operator spelling
@@ -189,16 +189,52 @@ def scalar_text(expr, unicode: bool = False) -> str:
     return unicode_text(text) if unicode else text
 
 
+ONE_LINE_MATRIX_CHARS = 60   # a matrix this short prints on one line
+
+
+def complex_text(expr, unicode: bool = False) -> str:
+    """A matrix entry: a real scalar, or re + im i with i the complex unit of matrix
+    literals (so it reads back, and never looks like the pseudoscalar I)."""
+    import sympy
+
+    if not expr.has(sympy.I):
+        return scalar_text(expr, unicode)
+    re, im = expr.as_real_imag()
+    re_text = scalar_text(re, unicode) if re != 0 else ""
+    sign, body = split_sign(scalar_text(im, unicode=False))
+    if unicode:
+        body = unicode_text(body)
+    if body == "1":
+        term = "i"
+    else:
+        term = f"({body})*i" if is_sum(body) else f"{body}*i"
+    if not re_text:
+        return f"-{term}" if sign < 0 else term
+    return f"{re_text} {'-' if sign < 0 else '+'} {term}"
+
+
 def matrix_text(matrix, unicode: bool = False) -> str:
-    """Bracketed rows with aligned columns."""
-    rows = [[scalar_text(matrix[i, j], unicode) for j in range(matrix.cols)]
+    """A matrix literal that reads back: [a, b; c, d], one row per line (columns aligned)
+    unless it is short."""
+    rows = [[complex_text(matrix[i, j], unicode) for j in range(matrix.cols)]
             for i in range(matrix.rows)]
-    widths = [max(len(row[j]) for row in rows) for j in range(matrix.cols)]
+    one_line = "[" + "; ".join(", ".join(row) for row in rows) + "]"
+    if len(one_line) <= ONE_LINE_MATRIX_CHARS or matrix.rows == 1:
+        return one_line
+    widths = [max(len(row[j]) for row in rows) + 1 for j in range(matrix.cols - 1)]
     lines = []
-    for row in rows:
-        cells = "  ".join(cell.ljust(widths[j]) for j, cell in enumerate(row))
-        lines.append(f"[ {cells} ]")
+    for index, row in enumerate(rows):
+        cells = [(cell + ",").ljust(widths[j] + 1) for j, cell in enumerate(row[:-1])]
+        end = "]" if index == len(rows) - 1 else ";"
+        lines.append(("[" if index == 0 else " ") + "".join(cells) + row[-1] + end)
     return "\n".join(lines)
+
+
+def quaternion_input_text(q, unicode: bool = False) -> str:
+    """quaternion(w, x, y, z): a quaternion as input that reads back (i, j, k would be
+    read as scalar names)."""
+    parts = ", ".join(scalar_text(c, unicode) for c in (q.a, q.b, q.c, q.d))
+    return f"quaternion({parts})"
 
 
 def quaternion_text(q, unicode: bool = False) -> str:

@@ -6,7 +6,9 @@ Policy, cheapest first:
    every trigonometric family cos(q u), sin(q u) is written over its base angle g u and
    sin^2 -> 1 - cos^2; a radical r = b^(1/n) has r^n -> b.  Zero in this form is zero.
 3. Side conditions (unit vectors, `given` lists) reduce further modulo a Gröbner basis
-   (gacalc.simplify.conditions).
+   (gacalc.simplify.conditions).  Ranges among them (`t > 0`, `scalar a in (0, pi)`)
+   rewrite abs, sign, atan2, acos, asin and log where a proved sign allows it
+   (gacalc.simplify.ranges); the result is reduced again.
 4. ``display_coef``: for printing, products of half angles are merged back into full
    angles (cos^2(t/2) - sin^2(t/2) -> cos t) whenever that is not longer.
 Every call runs under a time budget; when it runs out the correct but unsimplified value
@@ -25,6 +27,7 @@ from gacalc.algebra.multivector import Multivector
 
 from .budget import Budget, BudgetExceeded, time_limit
 from .exact_values import _exact_atan2, _exact_square_root
+from .ranges import ranges_of, split_conditions
 from .relations import has_opaque_generators, reduce_poly_relations, shortest_display
 
 DEFAULT_BUDGET = 10.0  # seconds per simplification call
@@ -48,6 +51,19 @@ def _conditions_reducer(conditions):
 
 def reduce_coef(coef: Coef, conditions=None, budget: Budget | None = None) -> Coef:
     """Canonical form of a coefficient modulo the generator relations (and conditions)."""
+    if coef is None or coef.expr is not None:
+        return coef
+    equations, _ = split_conditions(conditions)
+    out = _reduce_equations(coef, equations, budget)
+    ranges = ranges_of(conditions)
+    if ranges:
+        refined = ranges.refine_coef(out)
+        if refined is not out:
+            out = _reduce_equations(refined, equations, budget)
+    return out
+
+
+def _reduce_equations(coef: Coef, conditions, budget) -> Coef:
     if coef is None or coef.expr is not None:
         return coef
     num, den = coef.parts()
@@ -84,22 +100,30 @@ def decide_zero(coef: Coef, conditions=None, budget: Budget | None = None):
     c = reduce_coef(coef, conditions, budget)
     if c.is_zero():
         return True
-    if conditions:
+    equations, _ = split_conditions(conditions)
+    ranges = ranges_of(conditions)
+    if equations:
         # a nonzero remainder only says "not in the ideal"; decide looks for a real witness
-        return _conditions_reducer(conditions).decide(c, budget)
+        verdict = _conditions_reducer(equations).decide(c, budget)
+        if verdict is False and ranges:
+            return None   # the witness point may lie outside the ranges
+        return verdict
     if c.is_constant():
         return False
     if not has_opaque_generators(c):
-        # symbols and trig families are algebraically independent once reduced
+        # symbols and trig families are algebraically independent once reduced (and a
+        # nonzero analytic function does not vanish on a whole open range either)
         return False
-    return _decide_opaque(c, budget)
+    return _decide_opaque(c, budget, ranges)
 
 
-def _decide_opaque(c: Coef, budget):
-    """Generators with hidden relations (abs, exp, nested roots): a numeric witness, then sympy."""
+def _decide_opaque(c: Coef, budget, ranges=None):
+    """Generators with hidden relations (abs, exp, nested roots): a numeric witness (inside
+    the ranges, when there are any), then sympy."""
     expr = Coef(c.num).to_expr()
     free = sorted(expr.free_symbols, key=str)
-    values = {s: sympy.Rational(7 + 3 * i, 11 + 2 * i) for i, s in enumerate(free)}
+    values = {s: (ranges.sample(s, i) if ranges else sympy.Rational(7 + 3 * i, 11 + 2 * i))
+              for i, s in enumerate(free)}
     from gacalc.algebra.signs import certified_sign
 
     try:

@@ -188,7 +188,8 @@ class ConditionSet:
         """The condition set of a tuple of conditions, cached in the current algebra context
         (its bases hold that context's generator positions)."""
         cache = current().store("gacalc.simplify condition sets", OrderedDict)
-        key = tuple(conditions or ())
+        # ranges (t > 0) are not equations: gacalc.simplify.ranges applies them
+        key = tuple(c for c in conditions or () if not isinstance(c, sympy.core.relational.Relational))
         found = cache.get(key)
         if found is None:
             try:

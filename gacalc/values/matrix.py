@@ -27,18 +27,52 @@ class MatrixKind(ValueKind):
     def scalars(self, value) -> list:
         return list(value)
 
+    def symbols(self, value) -> frozenset:
+        return frozenset().union(*(e.free_symbols for e in value))
+
+    def simplify(self, value, conditions, budget):
+        """Each complex entry through gacalc.simplify, real and imaginary parts apart (the
+        complex a + b i as the central a + b e123, Pauli picture)."""
+        from gacalc.simplify import simplify
+
+        entries, complete = [], True
+        for x in value:
+            if not x.has(sympy.I):     # real entries stay as computed (as before)
+                entries.append(x)
+                continue
+            outcome = simplify(_complex_mv(x), conditions, budget)
+            complete = complete and outcome.complete
+            entries.append(outcome.value.scalar_part() + sympy.I * outcome.value["e123"])
+        return sympy.ImmutableMatrix(value.rows, value.cols, entries), complete
+
+    def coerce(self, value, like):
+        """A multivector where a matrix ``like`` is expected, as the representation
+        allows: any multivector next to a 2x2 matrix is its Pauli matrix; a real scalar
+        next to a square matrix is that multiple of the identity."""
+        from gacalc.algebra import Multivector
+
+        if not isinstance(value, Multivector) or like.rows != like.cols:
+            return None
+        if like.shape == (2, 2):
+            from gacalc.algebra.representations import pauli
+
+            return sympy.ImmutableMatrix(pauli(value))
+        if value.is_scalar() or value.is_zero():
+            return value.scalar_part() * sympy.eye(like.rows)
+        return None
+
     def numeric(self, value, digits):
         return value.applyfunc(lambda e: sympy.N(e, digits))  # complex entries too
 
     def add(self, left, right, sign, span):
         if left.shape != right.shape:
             return None
-        return left + right if sign > 0 else left - right
+        return (left + right if sign > 0 else left - right).applyfunc(sympy.expand)
 
     def multiply(self, left, right, span):
         if left.cols != right.rows:
             return None
-        return left * right
+        return (left * right).applyfunc(sympy.expand)
 
     def scale(self, value, factor):
         return value * factor
@@ -108,7 +142,8 @@ def _complex_mv(x):
     """A complex scalar a + b i as the central multivector a + b I (Pauli picture)."""
     from gacalc.algebra import Multivector
 
-    return Multivector({0: sympy.re(x), 7: sympy.im(x)})
+    re, im = sympy.expand_complex(x).as_real_imag()
+    return Multivector({0: re, 7: im})
 
 
 MATRIX = register(MatrixKind())

@@ -17,9 +17,9 @@ class QuaternionKind(ValueKind):
         return isinstance(value, Quaternion)
 
     def text(self, value, unicode=False, width=78, indent=0) -> str:
-        from gacalc.printing.text import quaternion_text
+        from gacalc.printing.text import quaternion_input_text
 
-        return quaternion_text(value, unicode)
+        return quaternion_input_text(value, unicode)
 
     def scalars(self, value) -> list:
         return [value.a, value.b, value.c, value.d]
