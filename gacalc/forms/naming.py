@@ -23,7 +23,21 @@ def _groups(text: str):
             stack.append(index)
         elif char == ")" and stack:
             start = stack.pop()
-            yield text[start + 1:index]
+            group = text[start + 1:index]
+            if not _has_top_level_comma(group):    # f(x, y)'s arguments are no scalar
+                yield group
+
+
+def _has_top_level_comma(text: str) -> bool:
+    depth = 0
+    for char in text:
+        if char in "([":
+            depth += 1
+        elif char in ")]":
+            depth -= 1
+        elif char == "," and depth == 0:
+            return True
+    return False
 
 
 def name_repeats(texts: list[str]) -> list[tuple[str, str]]:

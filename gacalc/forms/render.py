@@ -90,7 +90,14 @@ def _value_lines(item: ReportItem, unicode: bool) -> list:
     kind = kind_of(value)
     if kind is not None:
         return kind.report_lines(value, unicode, WIDTH)
-    return scalar_text(value, unicode).split("\n")
+    return scalar_text(_factored(value), unicode).split("\n")
+
+
+def _factored(expr):
+    """A scalar as written in a report: factored when that is shorter (display only)."""
+    from gacalc.simplify.factoring import factored
+
+    return factored(expr)
 
 
 def _omitted(item: ReportItem) -> str:
@@ -107,7 +114,7 @@ def _condition_text(item: ReportItem, unicode: bool) -> str:
     try:
         from gacalc.algebra import Multivector
 
-        return value_text(Multivector({0: item.condition}), unicode, 10**6)
+        return value_text(Multivector({0: _factored(item.condition)}), unicode, 10**6)
     except (ArithmeticError, ValueError, TypeError):
         return ""
 
@@ -124,7 +131,7 @@ def _annotation(item: ReportItem, unicode: bool, names=()) -> str:
     elif item.condition is not None:
         neq = "\u2260" if unicode else "!="
         condition = (item.condition_formula.text(unicode) if item.condition_formula is not None
-                     else scalar_text(item.condition, unicode))
+                     else scalar_text(_factored(item.condition), unicode))
         named = dict((text, name) for name, text in names).get(_condition_text(item, unicode)) \
             if names else None
         parts.append(f"where {named or condition} {neq} 0")
