@@ -47,13 +47,13 @@ def test_library_reports_have_no_section_limit(monkeypatch):
 def test_long_items_are_named_but_kept_in_the_report(monkeypatch):
     monkeypatch.setattr(report_module, "ITEM_TERMS", 3)
     s = Session()
-    s.run("vector a, b")
-    shown = _show(s, "show a b")
+    s.run("scalar x, y")
+    shown = _show(s, "show (x + y)^3 e1")
     item = shown.report.item("reverse")
-    assert item.omitted and "rev(a b) prints it" in item.omitted
+    assert item.omitted and "rev((x + y)^3 e1) prints it" in item.omitted
     assert "# reverse: omitted" in shown.report_text
     # the value itself is still there for programs
-    assert item.value == s.run("rev(a b)")[-1].value
+    assert item.value == s.run("rev((x + y)^3 e1)")[-1].value
 
 
 def test_the_general_product_reports_every_section():

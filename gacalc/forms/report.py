@@ -644,6 +644,9 @@ def _terms(value) -> int:
     """The number of terms of a value, counted without printing it (flint lengths for
     multivectors; sum terms of sympy expressions and entries)."""
     if isinstance(value, Multivector):
+        shared = value.shared_denominator()
+        if shared is not None:       # printed once: (numerator)/(denominator)
+            return _terms(shared[0]) + _terms(shared[1])
         total = 0
         for coef in value.coefs():
             if coef is None:
