@@ -141,3 +141,19 @@ def require_number(exponent, span):
     if not exponent.is_Rational:
         raise GacalcTypeError("a multivector can only be raised to a number; symbolic "
                               "exponents are for scalars", span)
+
+
+def inverse_with_note(evaluator, value, span):
+    """value.inverse_with_condition(), its condition said as a note (multivectors and
+    linear maps invert this way)."""
+    from gacalc.algebra import NotInvertibleError
+    from gacalc.language.evaluator import math_error
+    from gacalc.printing.text import scalar_text
+
+    try:
+        result, condition = value.inverse_with_condition()
+    except NotInvertibleError as error:
+        raise math_error(error, span) from None
+    if condition is not None:
+        evaluator.note(f"the inverse is valid where {scalar_text(condition)} != 0", span)
+    return result

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import sympy
 
-from gacalc.algebra import Multivector, NotInvertibleError
+from gacalc.algebra import Multivector
 from gacalc.algebra.outermorphism import LinearMap
 from gacalc.language.errors import GacalcTypeError
 
@@ -71,16 +71,9 @@ class LinearMapKind(ValueKind):
         return value.scale(-1)
 
     def inverse(self, evaluator, value, span):
-        from gacalc.language.evaluator import math_error
-        from gacalc.printing.text import scalar_text
+        from .kind import inverse_with_note
 
-        try:
-            result, condition = value.inverse_with_condition()
-        except NotInvertibleError as error:
-            raise math_error(error, span) from None
-        if condition is not None:
-            evaluator.note(f"the inverse is valid where {scalar_text(condition)} != 0", span)
-        return result
+        return inverse_with_note(evaluator, value, span)
 
     def divide(self, evaluator, left, right, span):
         raise GacalcTypeError("cannot divide by a linear map: multiply by its inverse, "

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import sympy
 
-from gacalc.algebra import Multivector, NotInvertibleError
+from gacalc.algebra import Multivector
 from gacalc.language.errors import GacalcMathError, GacalcTypeError
 
 from . import register
@@ -88,21 +88,15 @@ class MultivectorKind(ValueKind):
     def inverse(self, evaluator, value, span):
         """value^-1, noting the validity condition when it cannot be decided."""
         from gacalc.language import limits
-        from gacalc.language.evaluator import math_error
-        from gacalc.printing.text import scalar_text
 
         if value.is_zero():
             raise GacalcMathError("division by zero: 0 has no inverse", span)
         if not value.is_scalar():
             # A^-1 = conj(A) (a - b I) / (a^2 + b^2) with a + b I = A conj(A)
             limits.check_chain([value, value, value, value], span, "this inverse")
-        try:
-            result, condition = value.inverse_with_condition()
-        except NotInvertibleError as error:
-            raise math_error(error, span) from None
-        if condition is not None:
-            evaluator.note(f"the inverse is valid where {scalar_text(condition)} != 0", span)
-        return result
+        from .kind import inverse_with_note
+
+        return inverse_with_note(evaluator, value, span)
 
     def power(self, evaluator, base, exponent, node):
         import sympy
