@@ -61,6 +61,9 @@ def build_parser() -> argparse.ArgumentParser:
                         help="no colours or syntax highlighting (also when NO_COLOR is set)")
     parser.add_argument("--budget", type=float, metavar="SECONDS", default=None,
                         help="time allowed for simplifying one result (default 10)")
+    parser.add_argument("--statement-budget", type=float, metavar="SECONDS", default=None,
+                        help="wall-clock time allowed for one statement (default 10 in the "
+                             "REPL, where a person waits; 30 for scripts and -e)")
     parser.add_argument("--emit-dir", metavar="DIR", default=None,
                         help="write every emit of the scripts to a file in DIR (NAME.tex, "
                              "NAME.py, NAME.c; 'to \"file\"' paths resolve under DIR)")
@@ -139,6 +142,8 @@ def main(argv: list[str] | None = None) -> int:
     args = parser.parse_args(argv)
     if args.budget is not None and not args.budget > 0:
         parser.error("--budget must be a positive number of seconds")
+    if args.statement_budget is not None and not args.statement_budget > 0:
+        parser.error("--statement-budget must be a positive number of seconds")
     if args.emit_dir is not None:
         try:
             os.makedirs(args.emit_dir, exist_ok=True)
@@ -155,7 +160,7 @@ def main(argv: list[str] | None = None) -> int:
         from gacalc.repl import run_repl
 
         return run_repl(unicode=unicode, color=not args.no_color and not os.environ.get(
-            "NO_COLOR"), budget=args.budget)
+            "NO_COLOR"), budget=args.budget, statement_budget=args.statement_budget)
 
     from gacalc.runner import RunOptions, wants_color
 
@@ -164,7 +169,8 @@ def main(argv: list[str] | None = None) -> int:
         args.files, args.titles = _demo_paths(parser, args.files)
     options = RunOptions(unicode=unicode, color=wants_color(sys.stdout, not args.no_color),
                          echo=args.echo or args.demo, width=_terminal_width(sys.stdout),
-                         budget=args.budget, emit_dir=args.emit_dir)
+                         budget=args.budget, emit_dir=args.emit_dir,
+                         statement_budget=args.statement_budget)
     if not (args.files or args.statements):
         args.files = ["-"]          # statements piped on standard input
     try:

@@ -136,11 +136,13 @@ class Repl:
 
     def __init__(self, session=None, *, unicode: bool = True, color: bool = True,
                  budget: float | None = None, out=None, history=None, input=None,
-                 output=None):
+                 output=None, statement_budget: float | None = None):
         if session is None:
             from gacalc.language import Session
+            from gacalc.language.session import REPL_STATEMENT_BUDGET
 
-            session = Session(unicode=unicode, budget=budget)
+            session = Session(unicode=unicode, budget=budget, statement_budget=(
+                REPL_STATEMENT_BUDGET if statement_budget is None else statement_budget))
         self.session = session
         self.color = color
         self.style = Style(color)
@@ -310,5 +312,7 @@ class Repl:
         return 0
 
 
-def run_repl(*, unicode: bool = True, color: bool = True, budget: float | None = None) -> int:
-    return Repl(unicode=unicode, color=color, budget=budget).run()
+def run_repl(*, unicode: bool = True, color: bool = True, budget: float | None = None,
+             statement_budget: float | None = None) -> int:
+    return Repl(unicode=unicode, color=color, budget=budget,
+                statement_budget=statement_budget).run()

@@ -149,6 +149,7 @@ class RunOptions:
     width: int = 78
     budget: float | None = None
     emit_dir: str | None = None  # every emit writes a file there instead of the screen
+    statement_budget: float | None = None   # seconds per statement (None: the default)
 
 
 @dataclass
@@ -187,7 +188,8 @@ class ScriptRunner:
 
         return Session(unicode=self.options.unicode, budget=self.options.budget,
                        emit_dir=self.options.emit_dir,
-                       width=self.options.width)
+                       width=self.options.width,
+                       statement_budget=self.options.statement_budget)
 
     # Output ---------------------------------------------------------------------------
     def _print(self, text: str = ""):

@@ -212,3 +212,34 @@ def test_user_directories_follow_xdg(monkeypatch, tmp_path):
     monkeypatch.setattr(sys, "platform", "linux")
     monkeypatch.setenv("HOME", str(tmp_path / "home"))
     assert paths.data_dir() == tmp_path / "home" / ".local" / "share" / "gacalc"
+
+
+def test_statement_budget_flag_bounds_one_statement(capsys):
+    # a tiny budget abandons a slow statement with the one-line message; the session and
+    # the exit status say so (no timed assertion: 1 ms is spent before the show starts)
+    status = main(["--ascii", "--statement-budget", "0.001", "-e",
+                   "multivector A, B\nshow A B"])
+    captured = capsys.readouterr()
+    assert status == 2
+    assert "ran out of its time budget (0.001 s)" in captured.out + captured.err
+
+
+def test_statement_budget_must_be_positive(capsys):
+    with pytest.raises(SystemExit):
+        main(["--statement-budget", "0", "-e", "e1"])
+    assert "--statement-budget must be a positive" in capsys.readouterr().err
+
+
+def test_the_repl_waits_less_than_a_script():
+    from gacalc.language.session import DEFAULT_STATEMENT_BUDGET, REPL_STATEMENT_BUDGET
+    from gacalc.repl import Repl
+    from gacalc.runner import RunOptions, ScriptRunner
+
+    assert Repl(unicode=False, color=False, out=io.StringIO()).session.statement_budget \
+        == REPL_STATEMENT_BUDGET < DEFAULT_STATEMENT_BUDGET
+    assert Repl(unicode=False, color=False, out=io.StringIO(),
+                statement_budget=3).session.statement_budget == 3
+    runner = ScriptRunner(RunOptions(statement_budget=7))
+    assert runner.new_session().statement_budget == 7
+    assert ScriptRunner(RunOptions()).new_session().statement_budget \
+        == DEFAULT_STATEMENT_BUDGET

@@ -62,6 +62,9 @@ if INSTALLED.latex is None:
 
 DEFAULT_BUDGET = 10.0             # seconds for one simplification
 DEFAULT_STATEMENT_BUDGET = 30.0   # seconds of wall-clock time for one statement
+# The REPL's default is lower: a person is waiting at the prompt, and a script run
+# unattended may take its time.  Both are set by --statement-budget.
+REPL_STATEMENT_BUDGET = 10.0
 
 
 # The session -------------------------------------------------------------------------
