@@ -10,12 +10,11 @@ seconds of each and the ratio sympy / gacalc.
 
 from __future__ import annotations
 
+import os
 import statistics
 import sys
-import time
 
 import sympy
-from sympy.core.cache import clear_cache
 
 import gacalc.simplify  # noqa: F401  (installs the simplifier)
 from gacalc.algebra import Multivector, symbolic
@@ -38,11 +37,8 @@ def values():
             ("d/dt of M(t) M(t) M(t), general M", m2 * m2 * m2)]
 
 
-def timed(fn):
-    clear_cache()
-    t0 = time.perf_counter()
-    fn()
-    return time.perf_counter() - t0
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+from bench import timed  # noqa: E402  (one timing helper for all benchmarks)
 
 
 def _fresh_diff(value, order):

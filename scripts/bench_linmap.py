@@ -15,31 +15,18 @@ gacalc is faster).  Usage: python scripts/bench_linmap.py [--repeats N]
 from __future__ import annotations
 
 import argparse
-import statistics
 import sys
-import time
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
 import sympy as sp  # noqa: E402
-from sympy.core.cache import clear_cache  # noqa: E402
+
+sys.path.insert(0, str(ROOT / "scripts"))
+from bench import side_by_side  # noqa: E402  (one timing helper for all benchmarks)
 
 
-def timed(fn):
-    clear_cache()
-    start = time.perf_counter()
-    fn()
-    return time.perf_counter() - start
-
-
-def side_by_side(a, b, repeats):
-    ta, tb = [], []
-    for _ in range(repeats):
-        ta.append(timed(a))
-        tb.append(timed(b))
-    return statistics.median(ta), statistics.median(tb)
 
 
 def gacalc_run(text):
