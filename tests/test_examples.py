@@ -33,6 +33,7 @@ def test_example_runs_and_every_check_holds(path):
     assert match, last
     assert int(match.group(1)) >= 3 and match.group(2) == "0"
     assert "FAILED" not in out.getvalue() and "undecided" not in out.getvalue()
+    assert "internal error" not in out.getvalue()
 
 
 def test_demos_end_with_checks():

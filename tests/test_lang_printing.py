@@ -153,7 +153,9 @@ def test_round_trip_of_session_results():
     session = Session()
     session.run("vector a, b; scalar theta; rotor R")
     for expression in ("a b", "rotate(rotor(e12, theta), a)", "a^-1", "R a R~",
-                       "exp(-e12 theta/2) + norm(a)", "cross(a, b) sqrt(2)/3"):
+                       "exp(-e12 theta/2) + norm(a)", "cross(a, b) sqrt(2)/3",
+                       # a shared denominator read outside the session's algebra context
+                       "(e1 + e2)/sqrt(2)", "(a + b)/sqrt(a . a)", "(a + b)/(a . b)"):
         result = [r for r in session.run(expression) if isinstance(r, ValueResult)][-1]
         for unicode in (False, True):
             text = result.render(unicode)

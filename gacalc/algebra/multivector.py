@@ -111,15 +111,17 @@ class Multivector:
         Multivectors (the denominator a scalar).  None otherwise.  For printing a value
         with its denominator written once."""
         present = [c for c in self._c if c is not None]
-        if len(present) < 2 or any(c.expr is not None or c.den is None for c in present):
+        if len(present) < 2 or any(c.expr is not None for c in present):
             return None
-        den = present[0].parts()[1]
-        for c in present[1:]:
-            if c.parts()[1] != den:
-                return None
-        numerator = Multivector.from_coefs(None if c is None else Coef(c.parts()[0])
-                                           for c in self._c)
-        return numerator, Multivector.from_coefs([Coef(den)] + [None] * 7)
+        # Read each coefficient in its own registry: printing may run outside the session's
+        # algebra context, and lifting into another registry can rewrite a denominator
+        # (1/sqrt(2) becomes sqrt(2)/2), so test and split the same parts.
+        parts = [None if c is None else c._own_parts()[1:] for c in self._c]
+        dens = [p[1] for p in parts if p is not None]
+        if any(d is None for d in dens) or any(d != dens[0] for d in dens[1:]):
+            return None
+        numerator = Multivector.from_coefs(None if p is None else Coef(p[0]) for p in parts)
+        return numerator, Multivector.from_coefs([Coef(dens[0])] + [None] * 7)
 
     def coefficient_texts(self):
         """(index, ASCII coefficient text) for the nonzero components, in basis order."""

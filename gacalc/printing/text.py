@@ -153,7 +153,8 @@ def multivector_text(mv, unicode: bool = False, width: int = DEFAULT_WIDTH,
         numerator, denominator = shared
         body = multivector_text(numerator, unicode, width, indent + 1)
         below = multivector_text(denominator, unicode, 10**6)
-        if is_sum(below) or not re.fullmatch(r"[\w.]+", below):
+        # A name, a number or one call of plain arguments binds tighter than "/".
+        if is_sum(below) or not re.fullmatch(r"[\w.]+(\([\w.,^ */+-]*\))?", below):
             below = f"({below})"
         return f"({body})/{below}"
     terms = _terms(mv, unicode)
