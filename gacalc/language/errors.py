@@ -8,7 +8,9 @@ renders ``file:line:col: message`` followed by the source line and carets.
 from __future__ import annotations
 
 import bisect
-from dataclasses import dataclass, field
+import re
+
+_LINE_BREAK = re.compile("\n")
 
 
 class Source:
@@ -17,10 +19,8 @@ class Source:
     def __init__(self, text: str, filename: str | None = None):
         self.text = text
         self.filename = filename
-        self._line_starts = [0]
-        for index, char in enumerate(text):
-            if char == "\n":
-                self._line_starts.append(index + 1)
+        # found by the regex engine: a long script is not walked character by character
+        self._line_starts = [0] + [match.end() for match in _LINE_BREAK.finditer(text)]
 
     @property
     def display_name(self) -> str:
@@ -43,13 +43,31 @@ class Source:
         return Span(self, start, end)
 
 
-@dataclass(frozen=True)
 class Span:
-    """Half-open character range [start, end) in a Source."""
+    """Half-open character range [start, end) in a Source.
 
-    source: Source = field(repr=False, compare=False)
-    start: int
-    end: int
+    Immutable by convention; a plain class with slots rather than a frozen dataclass
+    because the scanner makes one per token (a frozen dataclass costs four times as
+    much to create).  Equality and hashing use (start, end), as before: the source is
+    not compared."""
+
+    __slots__ = ("source", "start", "end")
+
+    def __init__(self, source: Source, start: int, end: int):
+        self.source = source
+        self.start = start
+        self.end = end
+
+    def __eq__(self, other):
+        if other.__class__ is not Span:
+            return NotImplemented
+        return self.start == other.start and self.end == other.end
+
+    def __hash__(self):
+        return hash((self.start, self.end))
+
+    def __repr__(self):
+        return f"Span(start={self.start!r}, end={self.end!r})"
 
     @property
     def line(self) -> int:

@@ -19,6 +19,8 @@ Statements end at a newline or ';' (a ';' silences the result); see ``parse_stat
 
 from __future__ import annotations
 
+from fractions import Fraction
+from functools import lru_cache
 from typing import Iterator
 
 from gacalc.export import targets as export_targets
@@ -35,6 +37,9 @@ MAX_NUMBER_DIGITS = 1000
 _WEDGE_KINDS = (T.WEDGE, T.LCONTRACT, T.RCONTRACT, T.INNER)
 _PRIMARY_START = frozenset(T.NAME_KINDS | {T.NUMBER, T.LPAREN, T.LANGLE})
 _STATEMENT_END = frozenset({T.NEWLINE, T.SEMICOLON, T.EOF})
+_LEAF_KINDS = frozenset(T.NAME_KINDS | {T.NUMBER})
+# after a number or name, these make it more than a leaf operand of a product
+_AFTER_LEAF = frozenset({*_WEDGE_KINDS, T.REVERSE, T.CARET, T.SUPERSCRIPT, T.LBRACKET})
 _LBRACKET, _RBRACKET = T.LBRACKET, T.RBRACKET   # square brackets: closed interval ends
 _RELATIONS = {T.EQUALS: "=", T.LANGLE: "<", T.LESSEQ: "<=", T.RANGLE: ">", T.GREATEREQ: ">="}
 
@@ -60,6 +65,9 @@ class _StatementParser:
     def __init__(self, tokens: list[Token], terminator: Token):
         self.tokens = tokens
         self.terminator = terminator
+        self.count = len(tokens)
+        # the terminator after the tokens: reading the current token needs no bounds test
+        self.padded = tokens + [terminator]
         self.position = 0
         self.depth = 0
         self.comparing = False   # in a condition: a '<' after an operand compares
@@ -67,19 +75,19 @@ class _StatementParser:
     # Token access -------------------------------------------------------------
     def peek(self, offset: int = 0) -> Token:
         index = self.position + offset
-        return self.tokens[index] if index < len(self.tokens) else self.terminator
+        return self.padded[index] if index <= self.count else self.terminator
 
     def advance(self) -> Token:
-        token = self.peek()
-        if self.position < len(self.tokens):
-            self.position += 1
-        return token
+        position = self.position
+        if position < self.count:
+            self.position = position + 1
+        return self.padded[position]
 
     def at_end(self) -> bool:
-        return self.position >= len(self.tokens)
+        return self.position >= self.count
 
     def check(self, kind: str, value: str | None = None) -> bool:
-        token = self.peek()
+        token = self.padded[self.position]
         return token.kind == kind and (value is None or token.value == value)
 
     def previous(self) -> Token | None:
@@ -154,9 +162,18 @@ class _StatementParser:
         return S.Product(self.span_from(start), factors, ops)
 
     def parse_wedge(self) -> S.Node:
-        start = self.peek()
+        position = self.position
+        start = self.padded[position]
+        kind = start.kind
+        if kind in _LEAF_KINDS:
+            # a number or a name with nothing after it that binds tighter than a product
+            # (most operands of a script): the node parse_unary would build, made at once
+            following = self.padded[position + 1].kind
+            if following not in _AFTER_LEAF and (kind == T.NUMBER or following != T.LPAREN):
+                self.position = position + 1
+                return self._leaf(start)
         first = self.parse_unary()
-        if self.peek().kind not in _WEDGE_KINDS:
+        if self.padded[self.position].kind not in _WEDGE_KINDS:
             return first
         op_token = self.peek()
         operands = [first]
@@ -264,10 +281,7 @@ class _StatementParser:
         kind = token.kind
         if kind == T.NUMBER:
             self.advance()
-            if len(token.text) > MAX_NUMBER_DIGITS:
-                raise GacalcLimitError(f"number too long ({len(token.text)} digits; the limit "
-                                       f"is {MAX_NUMBER_DIGITS})", token.span)
-            return S.Number(token.span, _fraction(token.text), token.text)
+            return self._leaf(token)
         if kind in T.NAME_KINDS:
             self.advance()
             if self.check(T.LPAREN):
@@ -299,6 +313,16 @@ class _StatementParser:
         if kind == T.LBRACKET:
             return self.parse_matrix(token)
         self._operand_expected(token)
+
+    @staticmethod
+    def _leaf(token: Token) -> S.Node:
+        """The node of a number or name token (a name not followed by '(')."""
+        if token.kind == T.NUMBER:
+            if len(token.text) > MAX_NUMBER_DIGITS:
+                raise GacalcLimitError(f"number too long ({len(token.text)} digits; the limit "
+                                       f"is {MAX_NUMBER_DIGITS})", token.span)
+            return S.Number(token.span, _fraction(token.text), token.text)
+        return S.Name(token.span, token.value)
 
     def _bracketed(self) -> S.Node:
         """An expression inside brackets, where '<' opens a grade bracket again."""
@@ -806,9 +830,11 @@ class _StatementParser:
     _statement_against = _statement_as = _statement_to = _unexpected_keyword
 
 
-def _fraction(text: str):
-    from fractions import Fraction
-
+@lru_cache(maxsize=4096)
+def _fraction(text: str) -> Fraction:
+    """The exact value of a number's text (scripts repeat the same few numbers)."""
+    if text.isdigit():
+        return Fraction(int(text))
     return Fraction(text)
 
 

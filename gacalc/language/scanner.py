@@ -11,7 +11,6 @@ statements before a mistake still run.
 from __future__ import annotations
 
 import re
-from dataclasses import dataclass
 from functools import lru_cache
 from typing import Iterator
 
@@ -19,16 +18,34 @@ from . import tokens as T
 from .errors import GacalcSyntaxError, Source, Span
 
 
-@dataclass(frozen=True)
 class Token:
-    kind: str
-    text: str          # the characters as written
-    value: str         # normalised: Greek letters spelled out, superscripts as "-1"
-    span: Span
+    """One token: ``kind``, ``text`` (the characters as written), ``value`` (normalised:
+    Greek letters spelled out, superscripts as "-1", operators in their ASCII spelling)
+    and ``span``.  Immutable by convention; a slotted class because a script makes one per
+    token (equality and hashing as a frozen dataclass of the four fields)."""
+
+    __slots__ = ("kind", "text", "value", "span")
+
+    def __init__(self, kind: str, text: str, value: str, span: Span):
+        self.kind = kind
+        self.text = text
+        self.value = value
+        self.span = span
 
     @property
     def is_name(self) -> bool:
         return self.kind in T.NAME_KINDS
+
+    def _fields(self):
+        return (self.kind, self.text, self.value, self.span)
+
+    def __eq__(self, other):
+        if other.__class__ is not Token:
+            return NotImplemented
+        return self._fields() == other._fields()
+
+    def __hash__(self):
+        return hash(self._fields())
 
     def __repr__(self) -> str:
         return f"Token({self.kind}, {self.value!r})"
@@ -44,7 +61,14 @@ _SUPERSCRIPT_TO_ASCII = str.maketrans(T.SUPERSCRIPT_DIGITS + T.SUPERSCRIPT_MINUS
                                       "0123456789-")
 
 
+# Operators and punctuation normalise to their ASCII spelling, whatever was written.
+_ASCII_SPELLING = {kind: spellings[0] for kind, spellings in T.OPERATOR_SPELLINGS.items()}
+
+
 def _normalise(kind: str, text: str) -> str:
+    ascii_spelling = _ASCII_SPELLING.get(kind)
+    if ascii_spelling is not None:
+        return ascii_spelling
     if kind in T.NAME_KINDS:
         if text.isascii():
             return text
@@ -53,9 +77,6 @@ def _normalise(kind: str, text: str) -> str:
         return text.translate(_SUPERSCRIPT_TO_ASCII)
     if kind == T.STRING:
         return text[1:-1]
-    for ascii_kind, spellings in T.OPERATOR_SPELLINGS.items():
-        if kind == ascii_kind:
-            return spellings[0]
     return text
 
 
@@ -65,16 +86,13 @@ _CLOSERS = {T.RPAREN, T.RANGLE, T.RBRACKET}
 
 def raw_tokens(source: Source) -> Iterator[Token]:
     """Every token including whitespace and comments (for tools and tests)."""
-    pattern = master_pattern()
-    text = source.text
-    position = 0
-    while position < len(text):
-        match = pattern.match(text, position)
+    # every character matches some pattern (the last one takes any single character), so
+    # the matches of finditer tile the text
+    for match in master_pattern().finditer(source.text):
         kind = match.lastgroup
-        end = match.end()
         piece = match.group()
-        yield Token(kind, piece, _normalise(kind, piece), Span(source, position, end))
-        position = end
+        start, end = match.span()
+        yield Token(kind, piece, _normalise(kind, piece), Span(source, start, end))
 
 
 def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
@@ -85,32 +103,41 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
     brackets = 0          # open '[' (a ';' inside separates matrix rows)
     previous_kind = None
     comparing = False     # after assume/given, '<' and '>' compare: they open nothing
-    for token in raw_tokens(source):
-        kind = token.kind
-        if kind in T.TRIVIA_KINDS:
+    trivia, newline, keyword, semicolon = T.TRIVIA_KINDS, T.NEWLINE, T.KEYWORD, T.SEMICOLON
+    continuation, ascii_spelling = T.CONTINUATION_KINDS, _ASCII_SPELLING
+    # trivia is skipped before any token object is made: most of a script's matches are
+    # spaces; the rest is raw_tokens' work inlined (this loop runs once per token)
+    for match in master_pattern().finditer(source.text):
+        kind = match.lastgroup
+        if kind in trivia:
             continue
-        if kind == T.NEWLINE:
-            if depth > 0 or previous_kind in T.CONTINUATION_KINDS:
-                continue
-            if previous_kind == T.NEWLINE:
-                continue      # blank lines are one separator
+        if kind == newline:
+            if depth > 0 or previous_kind in continuation or previous_kind == newline:
+                continue      # inside brackets, after an operator; blank lines are one
             comparing = False
-        elif kind == T.KEYWORD and token.value in T.COMPARISON_KEYWORDS:
-            comparing = True
-        elif kind in _OPENERS and not (comparing and kind == T.LANGLE):
-            depth += 1
-            brackets += kind == T.LBRACKET
-        elif kind in _CLOSERS and not (comparing and kind == T.RANGLE):
-            depth = max(0, depth - 1)
-            brackets = max(0, brackets - (kind == T.RBRACKET))
-        elif kind == T.SEMICOLON and brackets > 0:
-            token = Token(T.ROWSEP, token.text, token.value, token.span)
-            kind = T.ROWSEP
-        elif kind == T.SEMICOLON:
-            depth = 0         # a ';' ends a statement (unclosed brackets error)
-            comparing = False
+        elif kind in _OPENERS:
+            if not (comparing and kind == T.LANGLE):
+                depth += 1
+                brackets += kind == T.LBRACKET
+        elif kind in _CLOSERS:
+            if not (comparing and kind == T.RANGLE):
+                depth = max(0, depth - 1)
+                brackets = max(0, brackets - (kind == T.RBRACKET))
+        elif kind == semicolon:
+            if brackets > 0:
+                kind = T.ROWSEP
+            else:
+                depth = 0     # a ';' ends a statement (unclosed brackets error)
+                comparing = False
+        piece = match.group()
+        start, end = match.span()
+        value = ascii_spelling.get(kind)
+        if value is None:
+            value = _normalise(kind, piece)
+            if kind == keyword and value in T.COMPARISON_KEYWORDS:
+                comparing = True
         previous_kind = kind
-        yield token
+        yield Token(kind, piece, value, Span(source, start, end))
     end = len(source.text)
     yield Token(T.EOF, "", "", Span(source, end, end))
 
