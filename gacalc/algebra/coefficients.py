@@ -95,12 +95,16 @@ def _fmpq_to_rational(c) -> sympy.Rational:
 class Coef:
     """An exact coefficient: num/den over the generators, or a sympy Expr (floats only)."""
 
-    __slots__ = ("num", "den", "expr")
+    __slots__ = ("num", "den", "expr", "_rational")
 
     def __init__(self, num=None, den=None, expr=None):
         self.num = num  # fmpq_mpoly, or None in expr mode
         self.den = den  # fmpq_mpoly with leading coefficient 1, or None for a polynomial
         self.expr = expr  # sympy Expr in expr mode
+        # is_rational, once asked: the value never changes (lifting into a larger context
+        # rewrites the polynomials, not what they are), and flint's is_constant costs
+        # a microsecond, asked for every coefficient of every product
+        self._rational = None
 
     # -- construction --------------------------------------------------------
 
@@ -111,7 +115,9 @@ class Coef:
             value = flint.fmpq(int(value.p), int(value.q))
         elif isinstance(value, Fraction):
             value = flint.fmpq(value.numerator, value.denominator)
-        return Coef(registry().constant(value))
+        coef = Coef(registry().constant(value))
+        coef._rational = True
+        return coef
 
     @staticmethod
     def _ratio(num, den) -> "Coef":
@@ -188,7 +194,11 @@ class Coef:
 
     def is_rational(self) -> bool:
         """A plain rational number (no generators)."""
-        return self.expr is None and self.den is None and self.num.is_constant()
+        rational = self._rational
+        if rational is None:
+            rational = self._rational = (self.expr is None and self.den is None
+                                         and self.num.is_constant())
+        return rational
 
     # -- arithmetic ----------------------------------------------------------
 

@@ -85,6 +85,19 @@ class Multivector:
         return mv
 
     @classmethod
+    def from_rationals(cls, values) -> "Multivector":
+        """The multivector of rational components in basis order (int or Fraction; up to
+        eight, the missing ones zero), zeros dropped: the literal path of the language,
+        which computes number-and-blade sums exactly in fractions, builds its value here
+        without going through sympy."""
+        c = [Coef.constant(v) if v else None for v in values]
+        if len(c) > 8:
+            raise ValueError("a multivector of Cl(3,0) has eight components")
+        mv = cls.__new__(cls)
+        mv._c = tuple(c + [None] * (8 - len(c)))
+        return mv
+
+    @classmethod
     def scalar(cls, x) -> "Multivector":
         return x if isinstance(x, Multivector) else cls({0: x})
 
@@ -198,6 +211,8 @@ class Multivector:
         right = [(j, y) for j, y in enumerate(other._c) if y is not None]
         if all(c.is_rational() for _, c in left) and all(c.is_rational() for _, c in right):
             return _rational_product(left, right, table)
+        if all(c.expr is None and c.den is None for _, c in left + right):
+            return _polynomial_product(left, right, table)
         out = [None] * 8
         for i, x in left:
             row = table[i]
@@ -474,6 +489,38 @@ def _rational_product(left, right, table) -> "Multivector":
                 sign, k = entry
                 out[k] = out[k] + x * y if sign > 0 else out[k] - x * y
     return Multivector.from_coefs(Coef.constant(v) if v else None for v in out)
+
+
+def _polynomial_product(left, right, table) -> "Multivector":
+    """The same product when every coefficient is a polynomial (no denominators): sums of
+    products of the numerators in one flint context, as Coef's + and * would compute
+    them, without a Coef per intermediate term."""
+    numerators = _numerators(left + right)
+    lp, rp = numerators[:len(left)], numerators[len(left):]
+    out = [None] * 8
+    for (i, _), x in zip(left, lp):
+        row = table[i]
+        for (j, _), y in zip(right, rp):
+            entry = row[j]
+            if entry is None:
+                continue
+            sign, k = entry
+            acc = out[k]
+            if acc is None:
+                out[k] = x * y if sign > 0 else -(x * y)
+            else:
+                out[k] = acc + x * y if sign > 0 else acc - x * y
+    return Multivector.from_coefs(None if n is None else Coef(n) for n in out)
+
+
+def _numerators(coefs) -> list:
+    """The numerators of polynomial coefficients, all lifted into the current context
+    (adopting one from another session's registry may add generators, so lift again)."""
+    numerators = [c.parts()[0] for _, c in coefs]
+    ctx = numerators[0].context() if numerators else None
+    if any(n.context() is not ctx for n in numerators):
+        numerators = [c.parts()[0] for _, c in coefs]
+    return numerators
 
 
 def _condition_text_expr(d: Coef):

@@ -34,6 +34,7 @@ from . import limits
 from . import syntax as S
 from . import tokens as T
 from .builtins import BUILTINS
+from .literals import evaluate_literal
 from .errors import (GacalcError, GacalcLimitError, GacalcMathError, GacalcNameError,
                      GacalcTypeError, Span)
 from .watchdog import StatementClock
@@ -120,6 +121,7 @@ class Evaluator:
         self.matrix_depth = 0     # inside [ ]: i is the complex unit
         self.depth = 0
         self.clock = clock
+        self.literal_shapes: dict = {}     # node id -> literal height (literals.py)
 
     # Notes ----------------------------------------------------------------------
     def note(self, text: str, span: Span | None = None):
@@ -145,8 +147,7 @@ class Evaluator:
 
     # Leaves ---------------------------------------------------------------------
     def _eval_Number(self, node: S.Number, frame):
-        value = node.value
-        return Multivector.scalar(sympy.Rational(value.numerator, value.denominator))
+        return Multivector.from_rationals((node.value,))
 
     def _eval_Name(self, node: S.Name, frame):
         return self.lookup(node.name, node.span, frame)
@@ -202,7 +203,18 @@ class Evaluator:
         return [name for name in self.state.values] + sorted(self.state.known_symbols)
 
     # Sums and products ----------------------------------------------------------------
+    def _literal(self, node, frame):
+        """The value of a subtree of numbers and blades computed in fractions, or None."""
+        if self.matrix_depth:
+            return None                    # inside [ ] names such as i mean other things
+        state = self.state
+        return evaluate_literal(node, frame, state.values, state.dependence,
+                                self.literal_shapes, self.depth, MAX_EVAL_DEPTH)
+
     def _eval_Sum(self, node: S.Sum, frame):
+        literal = self._literal(node, frame)
+        if literal is not None:
+            return literal
         total = self.evaluate(node.terms[0], frame)
         for sign, term in zip(node.signs[1:], node.terms[1:]):
             value = self.evaluate(term, frame)
@@ -235,6 +247,9 @@ class Evaluator:
                               f"{describe_value(left)}", span)
 
     def _eval_Product(self, node: S.Product, frame):
+        literal = self._literal(node, frame)
+        if literal is not None:
+            return literal
         total = self.evaluate(node.factors[0], frame)
         for op, factor in zip(node.ops[1:], node.factors[1:]):
             value = self.evaluate(factor, frame)
@@ -314,6 +329,9 @@ class Evaluator:
         return result
 
     def _eval_Negate(self, node: S.Negate, frame):
+        literal = self._literal(node, frame)
+        if literal is not None:
+            return literal
         value = self.evaluate(node.operand, frame)
         negated = self._kind(value).negate(value)
         if negated is None:

@@ -23,6 +23,7 @@ only here; the rest of the language sees values through the public core API.
 from __future__ import annotations
 
 import math
+import weakref
 from dataclasses import dataclass
 
 from .errors import GacalcLimitError, Span
@@ -63,14 +64,38 @@ ZERO_SIZE = Size(0, 0, frozenset(), 0, 0)
 
 
 def size_of(value) -> Size:
-    """The exact size of a multivector (non-multivectors count as small)."""
+    """The exact size of a multivector (non-multivectors count as small).
+
+    Values are immutable and the same operand (a declared M) is measured again and again,
+    so sizes are kept per algebra context by the value's identity, for as long as the
+    value lives (a weak reference drops the entry with it)."""
     coefs = getattr(value, "coefs", None)
     if coefs is None:
         return ZERO_SIZE
+    from gacalc.algebra.context import current
+
+    cache = current().store(_SIZES, dict)
+    key = id(value)
+    known = cache.get(key)
+    if known is not None and known[0]() is value:
+        return known[1]
+    size = _measure(coefs())
+    try:
+        reference = weakref.ref(value, lambda _, key=key, cache=cache: cache.pop(key, None))
+    except TypeError:            # a value kind without weak references: not kept
+        return size
+    cache[key] = (reference, size)
+    return size
+
+
+_SIZES = "language.limits.sizes"
+
+
+def _measure(coefs) -> Size:
     terms = blades = degree = bits = 0
     generators: set = set()
     rational = False
-    for coef in coefs():
+    for coef in coefs:
         if coef is None:
             continue
         blades += 1
@@ -78,7 +103,13 @@ def size_of(value) -> Size:
             terms += _expr_terms(coef.expr)
             rational = True
             continue
-        for poly in (coef.num, coef.den):
+        num, den = coef.num, coef.den
+        if coef.is_rational():             # a rational number (never zero in a value)
+            terms += len(num)
+            for c in num.coeffs():
+                bits = max(bits, int(c.height_bits()))
+            continue
+        for poly in (num, den):
             if poly is None:
                 continue
             terms += len(poly)
@@ -86,7 +117,7 @@ def size_of(value) -> Size:
             generators.update(i for i, d in enumerate(poly.degrees()) if d > 0)
             for c in poly.coeffs():
                 bits = max(bits, int(c.height_bits()))
-        rational = rational or coef.den is not None
+        rational = rational or den is not None
     return Size(terms, blades, frozenset(generators), degree, bits, rational)
 
 
