@@ -38,6 +38,7 @@ _WEDGE_KINDS = (T.WEDGE, T.LCONTRACT, T.RCONTRACT, T.INNER)
 _PRIMARY_START = frozenset(T.NAME_KINDS | {T.NUMBER, T.LPAREN, T.LANGLE})
 _STATEMENT_END = frozenset({T.NEWLINE, T.SEMICOLON, T.EOF})
 _LEAF_KINDS = frozenset(T.NAME_KINDS | {T.NUMBER})
+_NEGATION_KINDS = frozenset({T.MINUS})      # '-' before a number leaf: read at once too
 # after a number or name, these make it more than a leaf operand of a product
 _AFTER_LEAF = frozenset({*_WEDGE_KINDS, T.REVERSE, T.CARET, T.SUPERSCRIPT, T.LBRACKET})
 _LBRACKET, _RBRACKET = T.LBRACKET, T.RBRACKET   # square brackets: closed interval ends
@@ -127,27 +128,33 @@ class _StatementParser:
         return self.parse_sum()
 
     def parse_sum(self) -> S.Node:
-        start = self.peek()
+        start = self.padded[self.position]
         first = self.parse_product()
         terms, signs = [first], [1]
-        while self.check(T.PLUS) or self.check(T.MINUS):
-            sign = 1 if self.advance().kind == T.PLUS else -1
+        padded = self.padded
+        while True:
+            kind = padded[self.position].kind
+            if kind != T.PLUS and kind != T.MINUS:
+                break
+            self.position += 1          # an operator, never the terminator
             terms.append(self.parse_product())
-            signs.append(sign)
+            signs.append(1 if kind == T.PLUS else -1)
         if len(terms) == 1:
             return first
         return S.Sum(self.span_from(start), terms, signs)
 
     def parse_product(self) -> S.Node:
-        start = self.peek()
+        padded = self.padded
+        start = padded[self.position]
         first = self.parse_wedge()
         factors, ops = [first], [""]
         while True:
-            token = self.peek()
-            if token.kind in (T.STAR, T.SLASH):
-                self.advance()
-                ops.append("*" if token.kind == T.STAR else "/")
-            elif token.kind in _PRIMARY_START:
+            token = padded[self.position]
+            kind = token.kind
+            if kind == T.STAR or kind == T.SLASH:
+                self.position += 1
+                ops.append("*" if kind == T.STAR else "/")
+            elif kind in _PRIMARY_START:
                 if token.kind == T.LANGLE and self.comparing:
                     break           # 0 < a: a comparison, not a grade bracket
                 if token.kind == T.NUMBER and self.previous().kind == T.NUMBER:
@@ -172,6 +179,14 @@ class _StatementParser:
             if following not in _AFTER_LEAF and (kind == T.NUMBER or following != T.LPAREN):
                 self.position = position + 1
                 return self._leaf(start)
+        elif kind in _NEGATION_KINDS and self.depth < MAX_DEPTH:
+            # -2 as parse_unary reads it: the negation of a number leaf
+            number = self.padded[position + 1]
+            if number.kind == T.NUMBER and self.padded[position + 2].kind not in _AFTER_LEAF:
+                self.position = position + 2
+                span = start.span
+                return S.Negate(Span(span.source, span.start, number.span.end),
+                                self._leaf(number))
         first = self.parse_unary()
         if self.padded[self.position].kind not in _WEDGE_KINDS:
             return first
