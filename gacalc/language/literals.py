@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import re
 from fractions import Fraction
+from functools import lru_cache
 
 from gacalc.algebra import Multivector
 from gacalc.algebra.basis import PRODUCT_TABLE, basis_of_word
@@ -31,6 +32,7 @@ _PSEUDOSCALAR_NAME = "I"
 _PAIR_BITS = 7
 
 
+@lru_cache(maxsize=256)
 def _blade_components(name: str):
     """(sign, basis position) of a blade name: e21 is -e12, e11 is 1, I is e123."""
     if name == _PSEUDOSCALAR_NAME:
@@ -43,17 +45,17 @@ def literal_height(node, memo: dict) -> int:
 
     Shape only: numbers, blade names (and I), negation, sums and products.  Memoised by
     node identity, so an evaluator asks about each node once."""
+    kind = type(node)
+    if kind is S.Number:                   # leaves: cheaper to look at than to remember
+        return 1
+    if kind is S.Name:
+        name = node.name
+        return 1 if name == _PSEUDOSCALAR_NAME or _BLADE_NAME.match(name) else 0
     key = id(node)
     height = memo.get(key)
     if height is not None:
         return height
-    kind = type(node)
-    if kind is S.Number:
-        height = 1
-    elif kind is S.Name:
-        name = node.name
-        height = 1 if name == _PSEUDOSCALAR_NAME or _BLADE_NAME.match(name) else 0
-    elif kind is S.Negate:
+    if kind is S.Negate:
         below = literal_height(node.operand, memo)
         height = below + 1 if below else 0
     elif kind is S.Sum or kind is S.Product:
@@ -134,8 +136,6 @@ def _value(node, frame, values, dependence) -> dict:
                 raise _NotLiteral          # division by zero or by a multivector
             total = {k: _quotient(x, divisor) for k, x in total.items()}
         else:
-            if _height(total) + _height(value) + _PAIR_BITS > limits.MAX_COEFFICIENT_BITS:
-                raise _NotLiteral          # the limits may refuse it: say so there
             total = _product(total, value)
     return total
 
@@ -146,28 +146,34 @@ def _quotient(x, divisor):
     return Fraction(x) / divisor
 
 
+def _bits(x) -> int:
+    """flint's height_bits of a rational: bits of its numerator or denominator."""
+    if isinstance(x, int):
+        return x.bit_length()
+    return max(x.numerator.bit_length(), x.denominator.bit_length())
+
+
 def _height(components: dict) -> int:
-    """Bits of the largest numerator or denominator (flint's height_bits of each)."""
-    height = 0
-    for x in components.values():
-        if isinstance(x, int):
-            height = max(height, abs(x).bit_length())
-        else:
-            height = max(height, abs(x.numerator).bit_length(), x.denominator.bit_length())
-    return height
+    """The largest height of the components."""
+    return max(map(_bits, components.values()), default=0)
 
 
 def _product(left: dict, right: dict) -> dict:
-    """The geometric product of two sparse component dicts (the core's sign table)."""
+    """The geometric product of two sparse component dicts (the core's sign table);
+    _NotLiteral where the limits could refuse it (let them say so)."""
     if len(left) == 1 and len(right) == 1:          # a number times a blade
         (i, x), = left.items()
         (j, y), = right.items()
+        if _bits(x) + _bits(y) + _PAIR_BITS > limits.MAX_COEFFICIENT_BITS:
+            raise _NotLiteral
         sign, k = PRODUCT_TABLE[i][j]
         if y == 1 or y == -1:
             return {k: x if sign * y > 0 else -x}
         if x == 1 or x == -1:
             return {k: y if sign * x > 0 else -y}
         return {k: x * y if sign > 0 else -(x * y)}
+    if _height(left) + _height(right) + _PAIR_BITS > limits.MAX_COEFFICIENT_BITS:
+        raise _NotLiteral
     out: dict = {}
     for i, x in left.items():
         row = PRODUCT_TABLE[i]
