@@ -277,12 +277,16 @@ def test_parser_leaf_shortcut_builds_the_same_trees(seed, monkeypatch):
     texts = [random_literal(rng)[0] for _ in range(6)]
     texts += ["a b~ c", "2^3 e1", "a . b c", "x[1] y", "f(x) g", "-2^2", "a /\\ b /\\ c",
               "<a>2 b", "norm(a) b", "a² b⁻¹", "x [1]", "2 3", "-2 e1", "-2~ a", "-2^2 b",
-              "a - -3", "-3(a)", "--3", "-3 . a"]
+              "a - -3", "-3(a)", "--3", "-3 . a", "(-7/4)*e1", "(3) e2", "(-2)", "(1/2)~",
+              "(1/2)^2", "(1/2) . a", "(1/2/3)", "(-1/2)(3/4)", "(1/-2)", "(1/2", "(-)",
+              "(" * 99 + "-1/2" + ")" * 99, "(" * 100 + "-1/2" + ")" * 100,
+              "(" * 98 + "-1/2" + ")" * 98 + " e1"]
     for text in texts:
         fast = [_spans(s) for s in _parse_all(text)]
         with monkeypatch.context() as patch:
             patch.setattr(parser_module, "_LEAF_KINDS", frozenset())
             patch.setattr(parser_module, "_NEGATION_KINDS", frozenset())
+            patch.setattr(parser_module, "_PAREN_KINDS", frozenset())
             slow = [_spans(s) for s in _parse_all(text)]
             slow_trees = _parse_all(text)
         assert fast == slow, text

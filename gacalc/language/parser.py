@@ -39,6 +39,7 @@ _PRIMARY_START = frozenset(T.NAME_KINDS | {T.NUMBER, T.LPAREN, T.LANGLE})
 _STATEMENT_END = frozenset({T.NEWLINE, T.SEMICOLON, T.EOF})
 _LEAF_KINDS = frozenset(T.NAME_KINDS | {T.NUMBER})
 _NEGATION_KINDS = frozenset({T.MINUS})      # '-' before a number leaf: read at once too
+_PAREN_KINDS = frozenset({T.LPAREN})        # a parenthesised signed number or fraction too
 # after a number or name, these make it more than a leaf operand of a product
 _AFTER_LEAF = frozenset({*_WEDGE_KINDS, T.REVERSE, T.CARET, T.SUPERSCRIPT, T.LBRACKET})
 _LBRACKET, _RBRACKET = T.LBRACKET, T.RBRACKET   # square brackets: closed interval ends
@@ -187,6 +188,10 @@ class _StatementParser:
                 span = start.span
                 return S.Negate(Span(span.source, span.start, number.span.end),
                                 self._leaf(number))
+        elif kind in _PAREN_KINDS:
+            number = self._parenthesised_number(position)
+            if number is not None:
+                return number
         first = self.parse_unary()
         if self.padded[self.position].kind not in _WEDGE_KINDS:
             return first
@@ -328,6 +333,36 @@ class _StatementParser:
         if kind == T.LBRACKET:
             return self.parse_matrix(token)
         self._operand_expected(token)
+
+    def _parenthesised_number(self, position: int) -> S.Node | None:
+        """(-7/4), (3), (-2) as a whole operand, read at once (generated scripts write
+        their coefficients so): the tree the full descent builds, or None to take it."""
+        padded = self.padded
+        q = position + 1
+        minus = None
+        if padded[q].kind in _NEGATION_KINDS:
+            minus = padded[q]
+            q += 1
+        numerator = padded[q]
+        if numerator.kind != T.NUMBER or self.depth + (2 if minus else 1) > MAX_DEPTH:
+            return None
+        q += 1
+        denominator = None
+        if padded[q].kind == T.SLASH and padded[q + 1].kind == T.NUMBER:
+            denominator = padded[q + 1]
+            q += 2
+        if padded[q].kind != T.RPAREN or padded[q + 1].kind in _AFTER_LEAF:
+            return None                  # more inside, or a postfix operator after it
+        node = self._leaf(numerator)
+        first = minus or numerator
+        source = first.span.source
+        if minus is not None:
+            node = S.Negate(Span(source, minus.span.start, numerator.span.end), node)
+        if denominator is not None:
+            node = S.Product(Span(source, first.span.start, denominator.span.end),
+                             [node, self._leaf(denominator)], ["", "/"])
+        self.position = q + 1
+        return node
 
     @staticmethod
     def _leaf(token: Token) -> S.Node:
