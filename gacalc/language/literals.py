@@ -33,6 +33,12 @@ _PAIR_BITS = 7
 
 
 @lru_cache(maxsize=256)
+def _blade_like(name: str) -> int:
+    """1 for a blade name (e1, e21, e123, I), 0 for any other name."""
+    return 1 if name == _PSEUDOSCALAR_NAME or _BLADE_NAME.match(name) else 0
+
+
+@lru_cache(maxsize=256)
 def _blade_components(name: str):
     """(sign, basis position) of a blade name: e21 is -e12, e11 is 1, I is e123."""
     if name == _PSEUDOSCALAR_NAME:
@@ -49,8 +55,7 @@ def literal_height(node, memo: dict) -> int:
     if kind is S.Number:                   # leaves: cheaper to look at than to remember
         return 1
     if kind is S.Name:
-        name = node.name
-        return 1 if name == _PSEUDOSCALAR_NAME or _BLADE_NAME.match(name) else 0
+        return _blade_like(node.name)
     key = id(node)
     height = memo.get(key)
     if height is not None:
@@ -61,7 +66,7 @@ def literal_height(node, memo: dict) -> int:
     elif kind is S.Sum or kind is S.Product:
         height = 0
         for child in node.terms if kind is S.Sum else node.factors:
-            below = literal_height(child, memo)
+            below = 1 if type(child) is S.Number else literal_height(child, memo)
             if not below:
                 height = 0
                 break
