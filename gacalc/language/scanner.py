@@ -105,6 +105,7 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
     comparing = False     # after assume/given, '<' and '>' compare: they open nothing
     trivia, newline, keyword, semicolon = T.TRIVIA_KINDS, T.NEWLINE, T.KEYWORD, T.SEMICOLON
     continuation, ascii_spelling = T.CONTINUATION_KINDS, _ASCII_SPELLING
+    number, name_kinds = T.NUMBER, T.NAME_KINDS
     # trivia is skipped before any token object is made: most of a script's matches are
     # spaces; the rest is raw_tokens' work inlined (this loop runs once per token)
     for match in master_pattern().finditer(source.text):
@@ -133,9 +134,12 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
         start, end = match.span()
         value = ascii_spelling.get(kind)
         if value is None:
-            value = _normalise(kind, piece)
-            if kind == keyword and value in T.COMPARISON_KEYWORDS:
-                comparing = True
+            if kind == number or (kind in name_kinds and piece.isascii()):
+                value = piece             # _normalise's answer for most remaining tokens
+            else:
+                value = _normalise(kind, piece)
+                if kind == keyword and value in T.COMPARISON_KEYWORDS:
+                    comparing = True
         previous_kind = kind
         yield Token(kind, piece, value, Span(source, start, end))
     end = len(source.text)
