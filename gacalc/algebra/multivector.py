@@ -5,8 +5,7 @@ from __future__ import annotations
 from fractions import Fraction
 from numbers import Integral
 
-import sympy
-from sympy.polys.polyerrors import BasePolynomialError
+from gacalc.lazy import loaded, sympy
 
 from .basis import BASIS_GRADES, BASIS_INDICES, BASIS_NAMES, PRODUCT_TABLE, PSEUDOSCALAR, basis_of_word
 from .coefficients import Coef, DomainError, from_expr, generators_of, poly_to_expr
@@ -45,7 +44,9 @@ _RIGHT = _product_table(lambda r, s, g: r >= s and g == r - s)
 _HESTENES = _product_table(lambda r, s, g: r > 0 and s > 0 and g == abs(r - s))
 _SCALAR = _product_table(lambda r, s, g: g == 0)
 
-_SCALAR_TYPES = (Integral, Fraction, sympy.Basic)
+def _is_scalar(x) -> bool:
+    """A plain number or a sympy object (none exists before sympy is imported)."""
+    return isinstance(x, (Integral, Fraction)) or (loaded("sympy") and isinstance(x, sympy.Basic))
 
 
 def _to_coef(x) -> Coef:
@@ -269,7 +270,7 @@ class Multivector:
         return other / self
 
     def __pow__(self, n):
-        if isinstance(n, sympy.Integer):
+        if loaded("sympy") and isinstance(n, sympy.Integer):
             n = int(n)
         if not isinstance(n, Integral):
             raise AlgebraError("only integer powers of a multivector; use the rotor functions for others")
@@ -485,6 +486,8 @@ def _condition_text_expr(d: Coef):
         expr = d.expr
         if expr.is_number:
             return expr
+        from sympy.polys.polyerrors import BasePolynomialError
+
         try:
             return sympy.sqf_part(sympy.numer(sympy.together(expr)))
         except (BasePolynomialError, ValueError):
@@ -511,8 +514,8 @@ def _index_of(key) -> int:
 def _coerce(x):
     if isinstance(x, Multivector):
         return x
-    if isinstance(x, _SCALAR_TYPES):
-        if isinstance(x, sympy.Basic) and not isinstance(x, sympy.Expr):
+    if _is_scalar(x):
+        if loaded("sympy") and isinstance(x, sympy.Basic) and not isinstance(x, sympy.Expr):
             return NotImplemented
         return Multivector({0: x})
     return NotImplemented
@@ -522,7 +525,8 @@ def as_multivector(x, what: str) -> Multivector:
     """x as a Multivector (a plain scalar becomes one); AlgebraError naming ``what`` otherwise."""
     if isinstance(x, Multivector):
         return x
-    if isinstance(x, (Integral, Fraction, sympy.Expr)) and not isinstance(x, bool):
+    if (isinstance(x, (Integral, Fraction)) or (loaded("sympy") and isinstance(x, sympy.Expr))) \
+            and not isinstance(x, bool):
         return Multivector.scalar(x)
     raise AlgebraError(f"{what} needs a multivector; got {type(x).__name__}")
 

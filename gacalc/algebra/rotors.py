@@ -27,7 +27,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 
-import sympy
+from gacalc.lazy import sympy
 
 from .context import current
 from .multivector import as_multivector as _as_multivector, ONE, AlgebraError, I, Multivector, e12, simplified_scalar

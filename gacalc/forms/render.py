@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import textwrap
 
-import sympy
+from gacalc.lazy import sympy
 
 from .report import Report, ReportItem
 

@@ -17,7 +17,7 @@ import dataclasses
 from dataclasses import dataclass, field
 from fractions import Fraction
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra import AlgebraError, Multivector, NotInvertibleError
 

@@ -22,7 +22,7 @@ import math
 import re
 from dataclasses import dataclass, field
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra import AlgebraError, Multivector, NotInvertibleError, blade
 from gacalc.printing.text import scalar_text

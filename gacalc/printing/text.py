@@ -31,7 +31,6 @@ from __future__ import annotations
 import re
 
 from gacalc.algebra.basis import BASIS_GRADES, BASIS_NAMES
-from gacalc.algebra.spelling import input_text
 from gacalc.language.tokens import greek
 
 DEFAULT_WIDTH = 78
@@ -186,6 +185,8 @@ def multivector_text(mv, unicode: bool = False, width: int = DEFAULT_WIDTH,
 # Scalars, matrices, quaternions -------------------------------------------------------
 def scalar_text(expr, unicode: bool = False) -> str:
     """A sympy scalar expression as gacalc text (ASCII operators: * ^ /)."""
+    from gacalc.algebra.spelling import input_text   # sympy's printer: loaded when used
+
     text = input_text(expr)
     return unicode_text(text) if unicode else text
 

@@ -19,7 +19,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef, from_expr
 from gacalc.algebra.context import Simplifier, install_simplifier

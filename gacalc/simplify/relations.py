@@ -12,7 +12,7 @@ from __future__ import annotations
 from functools import reduce as _fold
 from math import gcd
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef, registry, trig
 

@@ -10,7 +10,7 @@ reads back as the same map.
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra import Multivector
 from gacalc.algebra.outermorphism import LinearMap

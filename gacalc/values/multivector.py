@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra import Multivector
 from gacalc.language.errors import GacalcMathError, GacalcTypeError
