@@ -92,7 +92,7 @@ class Multivector:
     # -- access ----------------------------------------------------------------
 
     def __getitem__(self, key):
-        k = int(key) if isinstance(key, (Integral, sympy.Integer)) else _index_of(key)
+        k = int(key) if isinstance(key, Integral) else _index_of(key)   # sympy's Integer too
         c = self._c[k]
         return sympy.Integer(0) if c is None else c.to_expr()
 
@@ -150,6 +150,19 @@ class Multivector:
 
     def scalar_part(self):
         return self[0]
+
+    def rational_scalar(self) -> Fraction | None:
+        """The value as a Fraction when it is a rational scalar, else None (read from the
+        polynomial: needs no sympy)."""
+        if not self.is_scalar():
+            return None
+        c = self._c[0]
+        if c is None:
+            return Fraction(0)
+        if not c.is_rational():
+            return None
+        q = c.constant_value()
+        return Fraction(int(q.p), int(q.q))
 
     def grades(self) -> frozenset:
         return frozenset(BASIS_GRADES[k] for k, c in enumerate(self._c) if c is not None)

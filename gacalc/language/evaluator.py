@@ -108,6 +108,12 @@ def is_multivector(value) -> bool:
     return isinstance(value, Multivector)
 
 
+def whole_number(value) -> int | None:
+    """The value as an int when it is a rational scalar with denominator 1, else None."""
+    q = value.rational_scalar() if is_multivector(value) else None
+    return int(q) if q is not None and q.denominator == 1 else None
+
+
 class Evaluator:
     """Evaluates expressions against a (scratch) State; collects notes."""
 
@@ -146,7 +152,7 @@ class Evaluator:
     # Leaves ---------------------------------------------------------------------
     def _eval_Number(self, node: S.Number, frame):
         value = node.value
-        return Multivector.scalar(sympy.Rational(value.numerator, value.denominator))
+        return Multivector.scalar(value)     # a Fraction: exact, and needs no sympy
 
     def _eval_Name(self, node: S.Name, frame):
         return self.lookup(node.name, node.span, frame)
@@ -333,6 +339,10 @@ class Evaluator:
     def _eval_Power(self, node: S.Power, frame):
         base = self.evaluate(node.base, frame)
         exponent_value = self.evaluate(node.exponent, frame)
+        n = whole_number(exponent_value)
+        if n is not None and 0 <= n <= MAX_EXPONENT and is_multivector(base) \
+                and not base.is_scalar():
+            return self.integer_power(base, n, node.span)   # as the kind would; no sympy
         exponent = self.scalar(exponent_value, node.exponent.span, "an exponent")
         return self.power(base, exponent, node)
 
@@ -402,6 +412,9 @@ class Evaluator:
 
     def index_number(self, value, span: Span, count: int, what: str = "items") -> int:
         """A 1-based index into ``count`` items, as a Python int."""
+        exact = whole_number(value)                # read without sympy when it is one
+        if exact is not None and 1 <= exact <= count:
+            return exact
         number = self.scalar(value, span, "an index")
         if not number.is_Integer:
             raise GacalcTypeError(f"an index is a whole number from 1 to {count}, not "
@@ -583,6 +596,9 @@ class CallContext:
         return value
 
     def integer(self, index: int, low: int, high: int) -> int:
+        exact = whole_number(self.args[index])     # read without sympy when it is one
+        if exact is not None and low <= exact <= high:
+            return exact
         value = self.scalar(index)
         if not value.is_Integer or not low <= int(value) <= high:
             raise GacalcTypeError(f"{self._what(index)} must be a whole number from {low} to "
