@@ -151,3 +151,19 @@ def test_lazy_module_sees_a_monkeypatched_module(monkeypatch):
     stand_in = LazyModule("json")
     monkeypatch.setattr(real, "dumps", lambda value: "patched")
     assert stand_in.dumps(1) == "patched"
+
+
+def test_stand_ins_are_replaced_by_the_module_once_it_is_imported():
+    # after the first use, module globals hold sympy itself (reads at full speed)
+    code = ("import sys\nimport gacalc.algebra.coefficients as c\nimport gacalc.algebra.signs as s\n"
+            "before = type(c.sympy).__name__, type(s.iv).__name__\n"
+            "c.sympy.Integer(2); s.iv.prec\n"
+            "from gacalc.lazy import sympy as later\n"
+            "print(before, c.sympy is sys.modules['sympy'], type(s.iv).__name__, "
+            "later is sys.modules['sympy'])\n")
+    environment = dict(os.environ, PYTHONPATH=str(ROOT))
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
+                          timeout=120, env=environment, cwd=ROOT)
+    assert done.returncode == 0, done.stderr
+    assert done.stdout.split() == ["('LazyModule',", "'LazyModule')", "True",
+                                   "MPIntervalContext", "True"]
