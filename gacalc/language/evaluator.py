@@ -340,9 +340,11 @@ class Evaluator:
         base = self.evaluate(node.base, frame)
         exponent_value = self.evaluate(node.exponent, frame)
         n = whole_number(exponent_value)
-        if n is not None and 0 <= n <= MAX_EXPONENT and is_multivector(base) \
+        if n is not None and abs(n) <= MAX_EXPONENT and is_multivector(base) \
                 and not base.is_scalar():
-            return self.integer_power(base, n, node.span)   # as the kind would; no sympy
+            if n < 0:                                    # as the kind would; no sympy
+                base, n = self.inverse(base, node.span), -n
+            return self.integer_power(base, n, node.span)
         exponent = self.scalar(exponent_value, node.exponent.span, "an exponent")
         return self.power(base, exponent, node)
 
