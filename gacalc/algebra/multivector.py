@@ -259,11 +259,11 @@ class Multivector:
 
     def comm(self, other):
         other = _coerce(other)
-        return (self * other - other * self).scale(sympy.Rational(1, 2))
+        return (self * other - other * self).scale(Fraction(1, 2))
 
     def anticomm(self, other):
         other = _coerce(other)
-        return (self * other + other * self).scale(sympy.Rational(1, 2))
+        return (self * other + other * self).scale(Fraction(1, 2))
 
     def __truediv__(self, other):
         other = _coerce(other)

@@ -339,14 +339,31 @@ class Evaluator:
     def _eval_Power(self, node: S.Power, frame):
         base = self.evaluate(node.base, frame)
         exponent_value = self.evaluate(node.exponent, frame)
-        n = whole_number(exponent_value)
-        if n is not None and abs(n) <= MAX_EXPONENT and is_multivector(base) \
-                and not base.is_scalar():
-            if n < 0:                                    # as the kind would; no sympy
-                base, n = self.inverse(base, node.span), -n
-            return self.integer_power(base, n, node.span)
+        exact = self._whole_power(base, whole_number(exponent_value), node)
+        if exact is not None:
+            return exact
         exponent = self.scalar(exponent_value, node.exponent.span, "an exponent")
         return self.power(base, exponent, node)
+
+    def _whole_power(self, base, n: int | None, node: S.Power):
+        """base^n for a whole n, computed as the multivector kind would but without sympy
+        (a rational statement starts without importing it); None: take the general path,
+        which also says what is wrong."""
+        if n is None or abs(n) > MAX_EXPONENT or not is_multivector(base):
+            return None
+        if not base.is_scalar():
+            if n < 0:
+                base, n = self.inverse(base, node.span), -n
+            return self.integer_power(base, n, node.span)
+        q = base.rational_scalar()
+        if q is None or (q == 0 and n < 0):
+            return None
+        size = max(abs(q.numerator), q.denominator)
+        if size > 1 and abs(n) * math.log10(size) > MAX_RESULT_DIGITS:
+            return None
+        if abs(n) >= 2:
+            limits.check_power(base, abs(n), node.span)
+        return Multivector.scalar(q ** n)
 
     def power(self, base, exponent, node: S.Power):
         span = node.exponent.span
@@ -507,8 +524,8 @@ class Evaluator:
             if not message.startswith(function.name):
                 message = f"{function.name}: {message}"
             raise GacalcMathError(message, node.span) from None
-        if is_multivector(result) and result.is_scalar():
-            check_finite(result.scalar_part(), node.span)
+        if is_multivector(result) and result.is_scalar() and result.rational_scalar() is None:
+            check_finite(result.scalar_part(), node.span)      # a rational is finite
         limits.check_value(result, node.span, f"the result of {function.name}")
         return result
 
