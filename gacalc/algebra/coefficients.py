@@ -21,6 +21,7 @@ in an "expr" mode, the honest fallback for what the polynomial domain cannot hol
 
 from __future__ import annotations
 
+import functools
 from fractions import Fraction
 
 import re
@@ -306,6 +307,7 @@ def poly_to_expr(p, reg: GeneratorRegistry | None = None):
 # sympy Expr -> Coef
 
 
+@functools.cache
 def _trig_rewrites():
     """The other trigonometric functions as quotients of cos and sin: (numerator, denominator)."""
     return {

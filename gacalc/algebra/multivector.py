@@ -44,6 +44,7 @@ _RIGHT = _product_table(lambda r, s, g: r >= s and g == r - s)
 _HESTENES = _product_table(lambda r, s, g: r > 0 and s > 0 and g == abs(r - s))
 _SCALAR = _product_table(lambda r, s, g: g == 0)
 
+
 def _is_scalar(x) -> bool:
     """A plain number or a sympy object (none exists before sympy is imported)."""
     return isinstance(x, (Integral, Fraction)) or (loaded("sympy") and isinstance(x, sympy.Basic))

@@ -16,7 +16,7 @@ from fractions import Fraction
 from functools import reduce
 from numbers import Complex, Integral, Real
 
-from gacalc.lazy import sympy
+import sympy
 from sympy.algebras import Quaternion
 
 from .basis import BASIS_NAMES

@@ -8,7 +8,7 @@ so it is declared 'even'."""
 
 from __future__ import annotations
 
-from gacalc.lazy import sympy
+import sympy
 from sympy.core.function import AppliedUndef
 
 from gacalc.algebra.symbolic import KIND_COMPONENTS

@@ -10,8 +10,8 @@ from __future__ import annotations
 
 import random
 
-from gacalc.lazy import mpmath
-from gacalc.lazy import sympy
+import mpmath
+import sympy
 from sympy.core.function import AppliedUndef
 
 from gacalc.algebra.coefficients import Coef, from_expr, registry
