@@ -220,7 +220,8 @@ class StatementExecutors:
         return out
 
     def _do_Check(self, statement, state, results, context):
-        from gacalc.simplify import is_zero
+        from gacalc.simplify import decide
+        from gacalc.simplify.decision import combine
 
         given = self._conditions(statement.given, state, results, statement, "given")
         left = self._evaluate(statement.left, state, results, statement, given)
@@ -228,26 +229,23 @@ class StatementExecutors:
         differences = _differences(left, right, statement)
         conditions = relevant_conditions(state.conditions() + given, differences)
         exprs = [c.expr for c in conditions]
-        verdicts = [is_zero(d, (), self._simplify_budget()) for d in differences]
+        decision = combine(decide(d, (), self._simplify_budget()) for d in differences)
         used: list[Condition] = []
-        if not all(v is True for v in verdicts) and exprs:
-            verdicts = [is_zero(d, exprs, self._simplify_budget()) for d in differences]
+        if decision.verdict is not True and exprs:
+            decision = combine(decide(d, exprs, self._simplify_budget()) for d in differences)
             used = conditions
-        if all(v is True for v in verdicts):
-            outcome = "holds"
-        elif any(v is False for v in verdicts):
-            outcome = "fails"
-        else:
-            outcome = "undecided"
+        outcome = {True: "holds", False: "fails", None: "undecided"}[decision.verdict]
         difference, complete = None, True
         if outcome != "holds":
             simplified = [self._simplified(d, state, given) for d in differences]
             complete = all(s[1] for s in simplified)
             difference = _reassemble(left, right, [s[0] for s in simplified])
+        witness = _witness(self, decision, left, right, differences, state, given)
         texts = _unique(c.text for c in used)
         results.append(self._result(CheckResult, statement, outcome=outcome,
                                     difference=difference, conditions=texts,
-                                    complete=complete))
+                                    complete=complete, out_of_time=decision.out_of_time,
+                                    reason=decision.reason, witness=witness))
 
     def _do_Assume(self, statement, state, results, context):
         if statement.clear:
@@ -458,6 +456,17 @@ def _differences(left, right, statement) -> list:
         raise GacalcTypeError(f"cannot compare {describe(left)} with {describe(right)}",
                               statement.span)
     return differences
+
+
+def _witness(executor, decision, left, right, differences, state, given):
+    """(point text, L - R at the point) of a check that failed at a sample point, or None."""
+    if decision.verdict is not False or not decision.witness:
+        return None
+    from gacalc.simplify.decision import witness_text
+
+    point = decision.point
+    at_point = [executor._simplified(d.subs(point), state, given)[0] for d in differences]
+    return witness_text(decision), _reassemble(left, right, at_point)
 
 
 def _reassemble(left, right, differences):
