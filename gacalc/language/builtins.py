@@ -246,7 +246,8 @@ def _apply(ctx, v, x):
 
 
 @builtin("rotor(B, theta)", "rotor exp(-B theta/2) for a unit bivector B or a unit axis "
-         "vector n (plane n I); rotor(a, b) turns unit vector a into b",
+         "vector n (plane n I); rotor(a, b) turns the direction of a into that of b (any "
+         "nonzero lengths)",
          "rotor(e12, pi/2)", "rotors",
          chain=(0, 0, 0, 1))
 def _rotor(ctx, first, second):
@@ -256,6 +257,15 @@ def _rotor(ctx, first, second):
         return _rotors().rotor(first, second.scalar_part(), ctx.conditions())
     if first.grades() == {1} and second.grades() == {1}:
         rotor, arbitrary = _rotors().rotor_between(first, second, ctx.conditions())
+        if _rotors().lengths_unknown(first, second, ctx.conditions()):
+            from .syntax import Name, unparse
+
+            a, b = (unparse(node) for node in ctx.node.args[:2])
+            pa, pb = (text if isinstance(node, Name) else f"({text})"
+                      for text, node in zip((a, b), ctx.node.args))
+            ctx.note(f"rotor({a}, {b}) turns the direction of {a} into that of {b}: valid "
+                     f"where both are nonzero and not opposite (|{a}| |{b}| + {pa} . {pb} "
+                     "!= 0)")
         if arbitrary:
             ctx.note("the vectors are opposite: any plane containing them works; "
                      "one was chosen")
