@@ -79,6 +79,9 @@ class StatementExecutors:
         value = self._evaluate(statement.expr, state, results, statement)
         value, complete, _ = self._simplified(value, state)
         if name is not None:
+            rebound = _rebinding_note(state, name)
+            if rebound:
+                results.append(self._note(statement, rebound))
             state.functions.pop(name, None)
             state.declarations.pop(name, None)
             state.unit_names.discard(name)
@@ -265,7 +268,7 @@ class StatementExecutors:
         state.assumptions = state.assumptions + new
         _check_consistent(state.conditions(), new)
         self._log(state, statement)
-        if not statement.silent:
+        if not statement.silent and new:     # conditions that always hold were said so
             results.append(self._note(statement, "assuming " + "; ".join(
                 _unique(c.text for c in new))))
 
@@ -456,6 +459,25 @@ def _differences(left, right, statement) -> list:
         raise GacalcTypeError(f"cannot compare {describe(left)} with {describe(right)}",
                               statement.span)
     return differences
+
+
+def _rebinding_note(state, name: str) -> str:
+    """What an assignment replaces when the name was declared or a function (a plain
+    value simply changes); values computed before keep the old symbols."""
+    kind = state.declarations.get(name)
+    if kind == "scalar":
+        return (f"{name} was a declared scalar symbol and is now a value; values computed "
+                f"before keep the symbol {name}")
+    if kind is not None:
+        from gacalc.algebra.symbolic import component_names
+
+        components = ", ".join(component_names(kind, name))
+        return (f"{name} was a declared {kind} ({components}) and is now a value; values "
+                "computed before keep its components")
+    function = state.functions.get(name)
+    if function is not None:
+        return f"{name} was the function {name}({', '.join(function.params)}) and is now a value"
+    return ""
 
 
 def _witness(executor, decision, left, right, differences, state, given):
