@@ -17,7 +17,7 @@ from .builtins import BUILTINS
 from .errors import GacalcError, GacalcMathError, GacalcNameError, GacalcTypeError
 from .evaluator import (Condition, Evaluator, State, UserFunction, is_multivector,
                         relevant_conditions, symbol)
-from .help import help_text
+from .help import help_text, wrapped
 from .results import (CheckResult, DeclarationResult, EmitResult, HelpResult, NoteResult,
                       ShowResult, ValueResult)
 
@@ -360,7 +360,7 @@ class StatementExecutors:
         if text is None:
             raise GacalcNameError(f"no help on {statement.topic!r}",
                                   statement.span, hint="help lists the topics")
-        results.append(self._result(HelpResult, statement, help=text))
+        results.append(self._result(HelpResult, statement, help=wrapped(text, self.width)))
 
 
 # Helpers ------------------------------------------------------------------------------
