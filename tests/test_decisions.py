@@ -89,3 +89,13 @@ def test_the_runner_counts_a_method_limit_apart_from_the_budget(capsys):
     out = capsys.readouterr().out
     assert status == 1
     assert "(1 undecided, counted as failed)" in out and "within the time budget" not in out
+
+
+def test_the_notebook_shows_the_witness_and_the_reason():
+    from gacalc.display import bundle
+
+    session = Session()
+    failed = bundle(_check(session, "check abs(t) == t"))["text/html"]
+    assert "at <code>t = -1</code>" in failed
+    undecided = bundle(_check(session, "check log(d^2) == 2 log(d)"))["text/html"]
+    assert "no declared range" in undecided and "time budget" not in undecided

@@ -42,7 +42,9 @@ def _emit_help() -> tuple[str, str]:
 HELP_TOPICS: dict[str, tuple[str, str]] = {
     "check": ("check an identity: check L == R [given C = D, ...]",
               "check L == R [given C = D, ...]\n"
-              "  reports held, FAILED (with the simplified L - R) or undecided\n"
+              "  reports held, FAILED (with the simplified L - R, and its value at a point\n"
+              "  where the sides differ when one is found) or undecided (saying why: the\n"
+              "  time budget ran out, or what the method could not decide)\n"
               "  example: vector a, b; check a b == a . b + a /\\ b"),
     "given": ("side conditions of one check", "check L == R given C = D, E = F\n"
               "  example: vector a, b; check (a + b)^2 == a^2 + b^2 given a . b = 0"),
