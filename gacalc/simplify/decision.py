@@ -17,6 +17,7 @@ import sympy
 _SAMPLE_VALUES = tuple(sympy.Rational(p, q) for p, q in (
     (7, 11), (-1, 1), (2, 1), (-5, 3), (1, 3), (5, 1), (-7, 2), (3, 7), (-2, 9), (11, 2)))
 SAMPLE_POINTS = 8
+FOLLOW_UP_BITS = 320      # interval precision at the sample points after the first
 
 # Functions whose value depends on the sign (or the branch) of their argument.
 _SIGN_DEPENDENT = (sympy.Abs, sympy.sign, sympy.atan2, sympy.acos, sympy.asin, sympy.log,
@@ -59,11 +60,11 @@ def combine(decisions) -> Decision:
     return undecided("; ".join(reasons))
 
 
-def sample_points(symbols, ranges=None, count: int = SAMPLE_POINTS):
+def sample_points(symbols, ranges=None, count: int | None = None):
     """Exact rational points: each symbol inside its range when it has one, otherwise from
     the table of test values; the points satisfy every range condition."""
     points = []
-    for k in range(count):
+    for k in range(SAMPLE_POINTS if count is None else count):
         point = {}
         for i, s in enumerate(symbols):
             if ranges is not None and s in ranges.box:
@@ -79,16 +80,19 @@ def nonzero_at(expr, points, budget=None):
     """The first point where expr provably does not vanish (certified interval sign of the
     exact value), or None.  Points where a part of expr leaves the real numbers (sqrt or
     log of a negative number) lie outside its domain and are skipped: scalars are real."""
-    from gacalc.algebra.signs import certified_sign
+    from gacalc.algebra.signs import MAX_BITS, certified_sign
 
     parts = [p for p in expr.atoms(sympy.Function, sympy.Pow) if p.free_symbols]
-    for point in points:
+    for index, point in enumerate(points):
         if budget is not None:
             budget.check()
         try:
             if any(p.subs(point).is_real is not True for p in parts):
                 continue
-            if certified_sign(expr.subs(point)) is not None:
+            # the first point to full precision; at the others a value that is not zero
+            # shows its sign early, so an identity that holds costs little there
+            bits = MAX_BITS if index == 0 else FOLLOW_UP_BITS
+            if certified_sign(expr.subs(point), bits) is not None:
                 return point
         except (TypeError, ValueError, ZeroDivisionError):
             continue
