@@ -57,3 +57,20 @@ def test_substitution_errors_say_what_is_wrong_and_where():
         assert words in error.message and error.span.column == column, (text, error)
     # the session is as it was
     assert s.get("a").identical(_value(s, "a"))
+
+
+def test_subs_reaches_every_kind_of_value():
+    s = Session()
+    ok(s, "scalar t")
+    t = sympy.Symbol("t", real=True)
+    matrix = _value(s, "subs(matrix(rotor(e12, t)), t, pi/2)")
+    # reference: sympy's own Matrix.subs of the rotation matrix about z, [[c, -s], [s, c]]
+    # (handbook form)
+    expected = sympy.Matrix([[sympy.cos(t), -sympy.sin(t), 0],
+                             [sympy.sin(t), sympy.cos(t), 0], [0, 0, 1]]).subs(t, sympy.pi / 2)
+    assert matrix == expected
+    items = _value(s, "subs((cos(t) e1, pauli(t e3), quaternion(t, 0, 0, 1), "
+                      "linmap(t, 0, 0, 0, 1, 0, 0, 0, 1)), t, 2)")
+    assert items[0][1] == sympy.cos(2)
+    assert items[1] == sympy.Matrix([[2, 0], [0, -2]])
+    assert items[2].a == 2 and items[3].matrix[0, 0] == 2

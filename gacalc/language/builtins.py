@@ -443,38 +443,45 @@ def _from_quaternion(ctx, *args):
 
 
 # Symbols and numbers -------------------------------------------------------------
-@builtin("subs(A, t, value, ...)", "A with scalar symbols (or declared functions such as "
+@builtin("subs(A, t, value, ...)", "A (any value) with scalar symbols (or declared functions such as "
          "u(t)) replaced by values, all at once: subs(A, t, v, s, w) or "
          "subs(A, (t, v), (s, w))", "subs(cos(t) e1 + s e2, t, pi, s, 2)", "symbols",
          min_args=2, max_args=99,
          estimate=lambda args, span: _limits().check_substitutions(args, span))
 def _subs(ctx, a, *rest):
+    from gacalc.values import kind_of
+
     pairs = _substitution_pairs(ctx, rest)
-    value = ctx.multivector(0)
+    kind = kind_of(a)
+    mapped = None if kind is None else kind.map_scalars(a, _substitution(ctx, pairs))
+    if mapped is None:
+        ctx.multivector(0)   # says what subs accepts
+    return mapped
+
+
+def _substitution(ctx, pairs):
+    """The substitution of every pair in one sympy scalar, as a function."""
     sympy = _sympy()
+    from sympy.core.function import AppliedUndef
+
     keys = [key for key, _ in pairs]
-    mentioned = any(v.has(*keys) for _, v in pairs)
-    if mentioned:
+    if any(v.has(*keys) for _, v in pairs):
         # simultaneous, not in sequence: subs(A, a1, a2, a2, a1) swaps, a value never
         # sees another replacement (sympy's simultaneous substitution)
         if not all(isinstance(k, sympy.Symbol) for k in keys):
             ctx.fail("a value mentions a replaced function; substitute it in a call of "
                      "its own")
         mapping = dict(pairs)
-        return value.map_coefficients(lambda e: e.subs(mapping, simultaneous=True))
-    # no value mentions a replaced symbol: one after the other is the same as at once
-    for key, replacement in pairs:
-        value = _substitute(value, key, replacement)
-    return value
+        return lambda e: e.subs(mapping, simultaneous=True)
 
-
-def _substitute(value, key, replacement):
-    from sympy.core.function import AppliedUndef
-
-    if isinstance(key, AppliedUndef):
-        # a declared function of a scalar (scalar u(t)): its derivatives follow
-        return value.map_coefficients(lambda e: e.subs(key, replacement).doit())
-    return value.subs({key: replacement})
+    def in_sequence(e):
+        # no value mentions a replaced symbol: one after the other is the same as at once
+        for key, replacement in pairs:
+            e = e.subs(key, replacement)
+            if isinstance(key, AppliedUndef):
+                e = e.doit()      # a declared function (scalar u(t)): derivatives follow
+        return e
+    return in_sequence
 
 
 def _substitution_pairs(ctx, rest) -> list:
