@@ -99,3 +99,11 @@ def test_the_notebook_shows_the_witness_and_the_reason():
     assert "at <code>t = -1</code>" in failed
     undecided = bundle(_check(session, "check log(d^2) == 2 log(d)"))["text/html"]
     assert "no declared range" in undecided and "time budget" not in undecided
+
+
+def test_the_witness_point_avoids_a_pole_of_l_minus_r():
+    result = _check(Session(), "check (abs(t) - t)/(t + 1) e1 == 0")
+    point, value = result.witness
+    t = sympy.Rational(point.partition(" = ")[2])
+    # checked outside gacalc: sympy evaluates the fraction at the point
+    assert t != -1 and value[1] == (abs(t) - t) / (t + 1) != 0

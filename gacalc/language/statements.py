@@ -488,6 +488,11 @@ def _witness(executor, decision, left, right, differences, state, given):
 
     point = decision.point
     at_point = [executor._simplified(d.subs(point), state, given)[0] for d in differences]
+    import sympy
+
+    if any(e.has(sympy.zoo, sympy.nan, sympy.oo) for d in at_point
+           for e in kind_of(d).scalars(d)):
+        return None       # the point proves the sides differ; its value is not shown
     return witness_text(decision), _reassemble(left, right, at_point)
 
 

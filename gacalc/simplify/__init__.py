@@ -131,15 +131,17 @@ def decision_of_zero(coef: Coef, conditions=None, budget: Budget | None = None) 
         # symbols and trig families are algebraically independent once reduced (and a
         # nonzero analytic function does not vanish on a whole open range either)
         return NONZERO
-    return _decide_by_points(Coef(c.num).to_expr(), budget, ranges)
+    den = c.parts()[1]
+    return _decide_by_points(Coef(c.num).to_expr(), budget, ranges,
+                             denominator=None if den is None else Coef(den).to_expr())
 
 
-def _decide_by_points(expr, budget, ranges=None, equations=()):
+def _decide_by_points(expr, budget, ranges=None, equations=(), denominator=None):
     """Generators with hidden relations (abs, exp, nested roots): a numeric witness at
     exact rational points (inside the ranges, when there are any), then sympy."""
     if not equations:     # a point off the equations' set proves nothing
         free = sorted(expr.free_symbols, key=str)
-        point = nonzero_at(expr, sample_points(free, ranges), budget)
+        point = nonzero_at(expr, sample_points(free, ranges), budget, denominator)
         if point is not None:
             return Decision(False, witness=tuple((s, point[s]) for s in free))
     try:

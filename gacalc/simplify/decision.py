@@ -76,10 +76,12 @@ def sample_points(symbols, ranges=None, count: int | None = None):
     return points
 
 
-def nonzero_at(expr, points, budget=None):
+def nonzero_at(expr, points, budget=None, denominator=None):
     """The first point where expr provably does not vanish (certified interval sign of the
     exact value), or None.  Points where a part of expr leaves the real numbers (sqrt or
-    log of a negative number) lie outside its domain and are skipped: scalars are real."""
+    log of a negative number) lie outside its domain and are skipped: scalars are real;
+    so are the points where ``denominator`` is not provably nonzero (the value of the
+    whole fraction is shown there)."""
     from gacalc.algebra.signs import MAX_BITS, certified_sign
 
     parts = [p for p in expr.atoms(sympy.Function, sympy.Pow) if p.free_symbols]
@@ -88,6 +90,9 @@ def nonzero_at(expr, points, budget=None):
             budget.check()
         try:
             if any(p.subs(point).is_real is not True for p in parts):
+                continue
+            if denominator is not None and \
+                    certified_sign(denominator.subs(point), FOLLOW_UP_BITS) is None:
                 continue
             # the first point to full precision; at the others a value that is not zero
             # shows its sign early, so an identity that holds costs little there
