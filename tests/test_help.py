@@ -12,7 +12,7 @@ from gacalc.language.builtins import BUILTIN_NAMES
 from gacalc.language.tokens import CONSTANTS, DECLARATION_KINDS, KEYWORDS, SOFT_KEYWORDS
 
 _EVERY_NAME = sorted(set(KEYWORDS + DECLARATION_KINDS + CONSTANTS + SOFT_KEYWORDS
-                         + BUILTIN_NAMES + ("quit", "exit", "ans")))
+                         + BUILTIN_NAMES + ("quit", "exit", "ans", "i", "e1", "e123")))
 
 
 @pytest.mark.parametrize("name", _EVERY_NAME)

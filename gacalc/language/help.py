@@ -129,6 +129,10 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
           "dual(A) = A I^-1. In pauli(...) it is i times the identity; in matrix entries\n"
           "the complex unit is written i (so the two never look alike).\n"
           "  example: I I"),
+    "i": ("the complex unit of matrix entries",
+          "i is the complex unit in matrix literals: [i, 1; 1, -i] is pauli(e1 + e12).\n"
+          "Outside [ ] it is an ordinary name; the pseudoscalar is I (help I).\n"
+          "  example: from_pauli([i, 1; 1, -i])"),
     "pi": ("the number pi", "pi is exact (numeric(pi) gives digits)\n  example: cos(pi/3)"),
     "ans": ("the last result", "ans is the value of the last expression or assignment\n"
             "  example: e1 + e2; ans ans"),
@@ -172,6 +176,8 @@ def topic_entry(topic: str) -> tuple[str, str] | None:
     if target is not None:              # help latex, help numpy: that target's line
         return (f"an emit target: emit {topic} EXPR",
                 f"{target.help or f'emit {topic} EXPR'}\n  more: help emit")
+    if re.fullmatch(r"e[1-3]+", topic):    # a basis blade: how blades are named
+        return HELP_TOPICS["names"]
     return HELP_TOPICS.get(_ALIASES.get(topic, topic))
 
 
