@@ -104,6 +104,7 @@ class Tally:
     passed: int = 0
     failed: int = 0
     undecided: int = 0
+    out_of_time: int = 0        # the undecided ones whose time budget ran out
     errors: int = 0
     interrupted: bool = False
     files: int = 0
@@ -116,6 +117,7 @@ class Tally:
         self.passed += other.passed
         self.failed += other.failed
         self.undecided += other.undecided
+        self.out_of_time += other.out_of_time
         self.errors += other.errors
         self.interrupted = self.interrupted or other.interrupted
         self.files += other.files
@@ -125,10 +127,18 @@ class Tally:
             return []
         lines = []
         if self.undecided:
-            lines.append(f"({self.undecided} undecided within the time budget, counted as "
-                         "failed)")
+            lines.append(f"({self.undecided_text()}, counted as failed)")
         lines.append(f"{self.passed} passed, {self.failed + self.undecided} failed")
         return lines
+
+    def undecided_text(self) -> str:
+        """'2 undecided' with how many of them ran out of time (the rest met a limit of
+        the method, said on their own lines)."""
+        if self.out_of_time == self.undecided:
+            return f"{self.undecided} undecided within the time budget"
+        if self.out_of_time:
+            return f"{self.undecided} undecided, {self.out_of_time} of them within the time budget"
+        return f"{self.undecided} undecided"
 
     def exit_status(self) -> int:
         if self.interrupted:
@@ -208,6 +218,8 @@ class ScriptRunner:
                 tally.failed += 1
             else:
                 tally.undecided += 1
+                tally.out_of_time += bool(getattr(result, "out_of_time", False)
+                                          or not getattr(result, "reason", ""))
         text = styled_result(result, self.style)
         if text is None:
             return

@@ -7,6 +7,9 @@ the pieces together.
 
 from __future__ import annotations
 
+import re
+import textwrap
+
 from gacalc.export import targets as export_targets
 
 from .builtins import BUILTINS
@@ -15,9 +18,10 @@ _OPERATORS_HELP = """\
 operators, loosest to tightest:
   A + B   A - B                 sum, difference
   A * B   A B   A / B           geometric product (also side by side), A B^-1
-  A /\\ B  A _| B  A |_ B  A . B outer product, left and right contraction, inner
-                                product (Unicode: ∧ ⌋ ⌊ ·); one level, tighter than the
-                                geometric product; mixing two of them needs parentheses
+  A /\\ B  A _| B  A |_ B  A . B outer product, left and right contraction,
+                                inner product (Unicode: ∧ ⌋ ⌊ ·); one level,
+                                tighter than the geometric product; mixing two
+                                of them needs parentheses
   -A                            negation
   A~  A^k  A^-1  A²             reverse (also †), integer power, inverse
   <A>k  <A>                     grade-k part, scalar part
@@ -27,7 +31,9 @@ operators, loosest to tightest:
 def _emit_help() -> tuple[str, str]:
     """The emit topic, from the export-target table (a new target appears by itself)."""
     targets = export_targets.TARGETS
-    lines = [t.help for t in export_targets.described()]
+    # every target of the table, a late-registered one without a help line too
+    lines = [t.help or f"emit {t.name} EXPR" for t in targets.values()]
+    lines.append("emit TARGET components EXPR   the components, even when a formula is found")
     lines.append("  example: vector a, b; emit python a /\\ b as wedge")
     return (f"code for a value: emit {'|'.join(targets)} EXPR [as NAME] [to \"file\"]",
             "\n".join(lines))
@@ -36,7 +42,9 @@ def _emit_help() -> tuple[str, str]:
 HELP_TOPICS: dict[str, tuple[str, str]] = {
     "check": ("check an identity: check L == R [given C = D, ...]",
               "check L == R [given C = D, ...]\n"
-              "  reports held, FAILED (with the simplified L - R) or undecided\n"
+              "  reports held, FAILED (with the simplified L - R, and its value at a point\n"
+              "  where the sides differ when one is found) or undecided (saying why: the\n"
+              "  time budget ran out, or what the method could not decide)\n"
               "  example: vector a, b; check a b == a . b + a /\\ b"),
     "given": ("side conditions of one check", "check L == R given C = D, E = F\n"
               "  example: vector a, b; check (a + b)^2 == a^2 + b^2 given a . b = 0"),
@@ -116,6 +124,33 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
     "unit": ("after a declaration: the declared values have norm 1",
              "  example: vector n unit"),
     "operators": ("operators and their precedence", _OPERATORS_HELP),
+    "I": ("the pseudoscalar I = e123",
+          "I is e123, the unit pseudoscalar: I^2 = -1, and it commutes with everything.\n"
+          "dual(A) = A I^-1. In pauli(...) it is i times the identity; in matrix entries\n"
+          "the complex unit is written i (so the two never look alike).\n"
+          "  example: I I"),
+    "i": ("the complex unit of matrix entries",
+          "i is the complex unit in matrix literals: [i, 1; 1, -i] is pauli(e1 + e12).\n"
+          "Outside [ ] it is an ordinary name; the pseudoscalar is I (help I).\n"
+          "  example: from_pauli([i, 1; 1, -i])"),
+    "pi": ("the number pi", "pi is exact (numeric(pi) gives digits)\n  example: cos(pi/3)"),
+    "ans": ("the last result", "ans is the value of the last expression or assignment\n"
+            "  example: e1 + e2; ans ans"),
+    "quit": ("leave the interactive calculator: quit, exit or Ctrl-D",
+             "quit (or exit, or Ctrl-D) leaves the interactive calculator; the input history\n"
+             "is kept for the next session. In a script, and once you assign it, quit is an\n"
+             "ordinary name.\n"
+             "  example: quit"),
+    "in": ("the range of a declared scalar: scalar a in (low, high)",
+           "scalar a in (0, pi)    declares a with 0 < a < pi; [ ] ends are closed\n"
+           "  example: scalar a in (0, pi)"),
+    "none": ("drop the assumptions: assume none", "  example: assume none"),
+    "force": ("overwrite any file: save \"file.gac\" force",
+              "  example: save \"session.gac\" force"),
+    "auto": ("print results as formulas: formula auto", "  example: formula auto"),
+    "off": ("print components again: formula off", "  example: formula off"),
+    "components": ("emit the components: emit TARGET components EXPR",
+                   "  example: vector a, b; emit c components a /\\ b"),
     "names": ("names, numbers and symbols",
               "names: a letter, then letters, digits and inner underscores (Greek letters\n"
               "allowed: θ is theta). A name never assigned is a real scalar symbol.\n"
@@ -130,11 +165,20 @@ _OPERATOR_WORDS = {"/\\", "∧", "_|", "⌋", "|_", "⌊", ".", "·", "⋅", "~"
                    ">", "*", "+", "-", "/", "==", "="}
 
 
+_ALIASES = {"exit": "quit"}
+
+
 def topic_entry(topic: str) -> tuple[str, str] | None:
     """(one-line summary, text) of a statement or topic, or None."""
     if topic == "emit":
         return _emit_help()
-    return HELP_TOPICS.get(topic)
+    target = export_targets.target(topic)
+    if target is not None:              # help latex, help numpy: that target's line
+        return (f"an emit target: emit {topic} EXPR",
+                f"{target.help or f'emit {topic} EXPR'}\n  more: help emit")
+    if re.fullmatch(r"e[1-3]+", topic):    # a basis blade: how blades are named
+        return HELP_TOPICS["names"]
+    return HELP_TOPICS.get(_ALIASES.get(topic, topic))
 
 
 def help_text(topic: str | None, functions: dict | None = None) -> str | None:
@@ -175,3 +219,26 @@ def _overview() -> str:
         lines.append(f"  {category + ':':17}{', '.join(names)}")
     lines.append("more: help operators, help names, help calculus, help NAME")
     return "\n".join(lines)
+
+
+# "name    description" or "topic: text": where the description starts
+_COLUMN = re.compile(r"^(\s*\S.*?\s{2,})\S|^(\s*\S+:\s+)\S")
+
+
+def wrapped(text: str, width: int) -> str:
+    """Help text with lines longer than ``width`` broken at word boundaries (textwrap);
+    a continuation lines up under the description column of a "NAME   text" line, or
+    under the line's own indentation."""
+    out = []
+    for line in text.split("\n"):
+        if len(line) <= width:
+            out.append(line)
+            continue
+        column = _COLUMN.match(line)
+        indent = len(column.group(1) or column.group(2)) if column \
+            else len(line) - len(line.lstrip())
+        if indent > width // 2:
+            indent = len(line) - len(line.lstrip()) + 2
+        out.extend(textwrap.wrap(line, width, subsequent_indent=" " * indent,
+                                 break_long_words=False, break_on_hyphens=False))
+    return "\n".join(out)

@@ -128,6 +128,9 @@ class CheckResult(Result):
     difference: object = None
     conditions: list = field(default_factory=list)   # texts of the conditions it used
     complete: bool = True
+    out_of_time: bool = False     # undecided because the time budget ran out
+    reason: str = ""              # undecided otherwise: the limit the method reached
+    witness: tuple | None = None  # (point text, L - R there) of a failure at a point
 
     def __post_init__(self):
         self.kind = "check"
@@ -151,9 +154,20 @@ class CheckResult(Result):
         if self.outcome == "fails":
             difference = self.difference_text(unicode).replace("\n", "\n      ")
             given = f" (given {', '.join(self.conditions)})" if self.conditions else ""
-            return f"FAILED: {statement}{given}\n  L - R = {difference}"
-        return (f"undecided: {statement} (could not decide whether L - R is zero within the "
-                "time budget)")
+            return f"FAILED: {statement}{given}\n  L - R = {difference}" + self._witness_line(unicode)
+        if self.out_of_time or not self.reason:
+            return (f"undecided: {statement} (could not decide whether L - R is zero within "
+                    "the time budget)")
+        return f"undecided: {statement} (not decided: {self.reason})"
+
+    def _witness_line(self, unicode: bool) -> str:
+        if self.witness is None:
+            return ""
+        from gacalc.printing.text import unicode_text, value_text
+
+        point, value = self.witness
+        text = value_text(value, unicode, 10**6).replace("\n", " ")
+        return f"\n  L - R = {text} at {unicode_text(point) if unicode else point}"
 
 
 @dataclass

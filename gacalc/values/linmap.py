@@ -44,6 +44,9 @@ class LinearMapKind(ValueKind):
     def scalars(self, value) -> list:
         return list(value.matrix)
 
+    def map_scalars(self, value, fn):
+        return value.map_entries(fn)
+
     def numeric(self, value, digits):
         return value.map_entries(lambda e: sympy.N(e, digits))
 

@@ -27,6 +27,9 @@ class MatrixKind(ValueKind):
     def scalars(self, value) -> list:
         return list(value)
 
+    def map_scalars(self, value, fn):
+        return value.applyfunc(fn)       # complex entries too
+
     def symbols(self, value) -> frozenset:
         return frozenset().union(*(e.free_symbols for e in value))
 

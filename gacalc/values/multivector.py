@@ -36,6 +36,9 @@ class MultivectorKind(ValueKind):
     def scalars(self, value) -> list:
         return [e for _, e in value.items()]
 
+    def map_scalars(self, value, fn):
+        return value.map_coefficients(fn)
+
     def is_exact_constant(self, value) -> bool:
         # free_symbols reads the generators: no sympy conversion of long coefficients
         if value.free_symbols:

@@ -24,6 +24,9 @@ class QuaternionKind(ValueKind):
     def scalars(self, value) -> list:
         return [value.a, value.b, value.c, value.d]
 
+    def map_scalars(self, value, fn):
+        return Quaternion(*(fn(part) for part in self.scalars(value)))
+
     def numeric(self, value, digits):
         from sympy import N
 
