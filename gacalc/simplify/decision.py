@@ -10,18 +10,19 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-import sympy
+from gacalc.lazy import sympy
 
 # Sample points for symbols without a range: exact rationals of both signs and several
 # sizes (a periodic or sign-dependent function is caught on some of them).
-_SAMPLE_VALUES = tuple(sympy.Rational(p, q) for p, q in (
-    (7, 11), (-1, 1), (2, 1), (-5, 3), (1, 3), (5, 1), (-7, 2), (3, 7), (-2, 9), (11, 2)))
+_SAMPLE_RATIONALS = ((7, 11), (-1, 1), (2, 1), (-5, 3), (1, 3), (5, 1), (-7, 2), (3, 7),
+                     (-2, 9), (11, 2))
 SAMPLE_POINTS = 8
 FOLLOW_UP_BITS = 320      # interval precision at the sample points after the first
 
 # Functions whose value depends on the sign (or the branch) of their argument.
-_SIGN_DEPENDENT = (sympy.Abs, sympy.sign, sympy.atan2, sympy.acos, sympy.asin, sympy.log,
-                   sympy.Pow)
+# (A function, not a table: importing this module must not load sympy.)
+def _sign_dependent():
+    return (sympy.Abs, sympy.sign, sympy.atan2, sympy.acos, sympy.asin, sympy.log, sympy.Pow)
 
 
 @dataclass(frozen=True)
@@ -70,7 +71,7 @@ def sample_points(symbols, ranges=None, count: int | None = None):
             if ranges is not None and s in ranges.box:
                 point[s] = ranges.sample(s, k + i)
             else:
-                point[s] = _SAMPLE_VALUES[(k + 3 * i) % len(_SAMPLE_VALUES)]
+                point[s] = sympy.Rational(*_SAMPLE_RATIONALS[(k + 3 * i) % len(_SAMPLE_RATIONALS)])
         if ranges is None or all(c.subs(point) is sympy.true for c in ranges.conditions):
             points.append(point)
     return points
@@ -111,7 +112,7 @@ def opaque_reason(expr, ranges=None) -> str:
     from gacalc.algebra.spelling import input_text
 
     unknown_sign = []
-    for f in sorted(expr.atoms(*_SIGN_DEPENDENT), key=sympy.default_sort_key):
+    for f in sorted(expr.atoms(*_sign_dependent()), key=sympy.default_sort_key):
         if isinstance(f, sympy.Pow) and (f.exp.is_Integer or not f.base.free_symbols):
             continue
         free = f.free_symbols - ranged
