@@ -176,11 +176,11 @@ def _worth_trying(p, families) -> bool:
     return False
 
 
-def _linear_over(p, families, budget) -> Coef:
-    """p with the products of the chosen angles written as sums of cos(k . x), sin(k . x)."""
+def _linear_over(p, families, budget) -> dict:
+    """p with the products of the chosen angles written as sums of cos(k . x), sin(k . x):
+    {(k, kind): polynomial of the other factors}, zero entries dropped."""
     from .relations import _group_terms
 
-    angles = [x for x, _, _ in families]
     positions, slots = [], []
     for slot, (_, c, s) in enumerate(families):
         for pos, which in ((c, 0), (s, 1)):
@@ -196,11 +196,15 @@ def _linear_over(p, families, budget) -> Coef:
         for (k, kind), value in _series_of(exponents).items():
             term = rest * value if value != 1 else rest
             collected[(k, kind)] = collected[(k, kind)] + term if (k, kind) in collected else term
+    return {key: rest for key, rest in collected.items() if not rest.is_zero()}
+
+
+def _build(collected, families, budget) -> Coef:
+    """The Coef of a product-to-sum form (registers the angle sums it uses)."""
+    angles = [x for x, _, _ in families]
     total = Coef.constant(0)
     for (k, kind), rest in collected.items():
         budget.check()
-        if rest.is_zero():
-            continue
         factor = Coef.constant(1) if not any(k) else _trig_of(kind, k, angles)
         total = total + Coef(rest) * factor
     return total
@@ -222,15 +226,20 @@ def collapse_angles(p, best: Coef, budget: Budget) -> Coef:
         families = families[:MAX_FAMILIES]
     chosen, cost = best, _cost(best)
     try:
+        forms = []
         for size in range(len(families), 0, -1):
             for subset in combinations(families, size):
                 budget.check()
-                candidate = _linear_over(p, list(subset), budget)
-                if candidate.den is not None:
-                    continue
-                candidate_cost = _cost(candidate)
-                if candidate_cost < cost:
-                    chosen, cost = candidate, candidate_cost
+                collected = _linear_over(p, list(subset), budget)
+                terms = sum(len(rest) for rest in collected.values())
+                if terms <= cost[0]:      # counted before any new angle is registered
+                    forms.append((terms, collected, list(subset)))
+        for terms, collected, subset in sorted(forms, key=lambda f: f[0]):
+            if terms > cost[0]:
+                break
+            candidate = _build(collected, subset, budget)
+            if candidate.den is None and _cost(candidate) < cost:
+                chosen, cost = candidate, _cost(candidate)
     except (_TooLarge, BudgetExceeded) as stop:
         if isinstance(stop, BudgetExceeded) and not budget.expired():
             raise  # an outer deadline, not this rewrite's own
