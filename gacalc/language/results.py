@@ -128,6 +128,8 @@ class CheckResult(Result):
     difference: object = None
     conditions: list = field(default_factory=list)   # texts of the conditions it used
     complete: bool = True
+    rotation: bool = False     # check L == R as rotation: ``difference`` is then L R~
+    note: str = ""             # the sign found (as rotation); a failure's sign-only line
 
     def __post_init__(self):
         self.kind = "check"
@@ -144,6 +146,8 @@ class CheckResult(Result):
 
     def render(self, unicode: bool = False) -> str:
         statement = self.statement_text
+        if self.rotation:
+            return self._render_rotation(statement, unicode)
         if self.outcome == "holds":
             if self.conditions:
                 return f"held given {', '.join(self.conditions)}: {statement}"
@@ -151,9 +155,21 @@ class CheckResult(Result):
         if self.outcome == "fails":
             difference = self.difference_text(unicode).replace("\n", "\n      ")
             given = f" (given {', '.join(self.conditions)})" if self.conditions else ""
-            return f"FAILED: {statement}{given}\n  L - R = {difference}"
+            note = f"\n  {self.note}" if self.note else ""
+            return f"FAILED: {statement}{given}\n  L - R = {difference}{note}"
         return (f"undecided: {statement} (could not decide whether L - R is zero within the "
                 "time budget)")
+
+    def _render_rotation(self, statement: str, unicode: bool) -> str:
+        """check L == R as rotation: the sign it found, or L R~ when that is not +-1."""
+        if self.outcome == "holds":
+            given = f" given {', '.join(self.conditions)}" if self.conditions else ""
+            return f"held{given}: {statement} (the same rotation: {self.note})"
+        if self.outcome == "fails":
+            product = self.difference_text(unicode).replace("\n", "\n      ")
+            return (f"FAILED: {statement} (L R~ is neither 1 nor -1: different rotations)"
+                    f"\n  L R~ = {product}")
+        return f"undecided: {statement} (could not decide whether L R~ is 1 or -1)"
 
 
 @dataclass
