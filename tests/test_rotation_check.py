@@ -42,8 +42,8 @@ def test_a_turn_by_two_pi_more_is_the_negative_rotor(session):
     assert _render(session, "check rotor(e12, t + 2 pi) == rotor(e12, t)") == (
         "FAILED: check rotor(e12, t + 2 pi) == rotor(e12, t)\n"
         "  L - R = -2*cos(t/2) + 2*sin(t/2)*e12\n"
-        "  L == -R: the two sides differ only in sign (for rotors, 'check L == R as rotation' "
-        "compares rotations)")
+        "  L == -R: the two sides differ only in sign\n"
+        "  for rotors, 'check L == R as rotation' compares the rotations")
 
 
 def test_the_opposite_axis_and_the_complementary_angle(session):

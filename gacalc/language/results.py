@@ -155,7 +155,7 @@ class CheckResult(Result):
         if self.outcome == "fails":
             difference = self.difference_text(unicode).replace("\n", "\n      ")
             given = f" (given {', '.join(self.conditions)})" if self.conditions else ""
-            note = f"\n  {self.note}" if self.note else ""
+            note = "".join(f"\n  {line}" for line in self.note.splitlines())
             return f"FAILED: {statement}{given}\n  L - R = {difference}{note}"
         return (f"undecided: {statement} (could not decide whether L - R is zero within the "
                 "time budget)")

@@ -92,5 +92,5 @@ def sign_only_note(executor, left, right, exprs) -> str:
         return ""
     note = "L == -R: the two sides differ only in sign"
     if left.grades() <= {0, 2}:
-        note += " (for rotors, 'check L == R as rotation' compares rotations)"
+        note += "\nfor rotors, 'check L == R as rotation' compares the rotations"
     return note
