@@ -158,7 +158,7 @@ def test_an_exhausted_rewrite_budget_keeps_the_product_form():
     from gacalc.algebra.coefficients import from_expr
     from gacalc.simplify import Budget, display_coef
 
-    t, p = sympy.symbols("t p")
+    t, p = sympy.symbols("t p", real=True)   # the symbols sessions use
     coef = from_expr(sympy.cos(t / 2) * sympy.cos(p / 2) - sympy.sin(t / 2) * sympy.sin(p / 2))
     spent = Budget(0.0)
     assert display_coef(coef, angle_budget=spent).text() == "cos(p/2)*cos(t/2) - sin(p/2)*sin(t/2)"
@@ -170,7 +170,7 @@ def test_an_angle_sum_generator_expands_back_for_zero_tests():
     from gacalc.simplify import decide_zero, display_coef
     from gacalc.algebra.coefficients import from_expr
 
-    t, p = sympy.symbols("t p")
+    t, p = sympy.symbols("t p", real=True)   # the symbols sessions use
     product = from_expr(sympy.cos(t / 2) * sympy.cos(p / 2) - sympy.sin(t / 2) * sympy.sin(p / 2))
     shown = display_coef(product)
     assert decide_zero(shown - product) is True
