@@ -230,6 +230,8 @@ def collapse_angles(p, best: Coef, budget: Budget) -> Coef:
         for size in range(len(families), 0, -1):
             for subset in combinations(families, size):
                 budget.check()
+                if not _worth_trying(p, subset):
+                    continue          # product to sum would give p back
                 collected = _linear_over(p, list(subset), budget)
                 terms = sum(len(rest) for rest in collected.values())
                 if terms <= cost[0]:      # counted before any new angle is registered
