@@ -222,6 +222,9 @@ def collapse_angles(p, best: Coef, budget: Budget) -> Coef:
     families = _angle_families(p)
     if not families or best.den is not None or not _worth_trying(p, families):
         return best
+    shown = registry().lift(best.num)
+    if not _worth_trying(shown, _angle_families(shown)):
+        return best   # already a sum of single cosines and sines: the form this would find
     if len(families) > MAX_FAMILIES:
         families = families[:MAX_FAMILIES]
     chosen, cost = best, _cost(best)
