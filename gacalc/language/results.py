@@ -167,7 +167,8 @@ class CheckResult(Result):
             return f"held{given}: {statement} (the same rotation: {self.note})"
         if self.outcome == "fails":
             product = self.difference_text(unicode).replace("\n", "\n      ")
-            return (f"FAILED: {statement} (L R~ is neither 1 nor -1: different rotations)"
+            given = f", given {', '.join(self.conditions)}" if self.conditions else ""
+            return (f"FAILED: {statement} (L R~ is neither 1 nor -1{given}: different rotations)"
                     f"\n  L R~ = {product}")
         return f"undecided: {statement} (could not decide whether L R~ is 1 or -1)"
 

@@ -75,7 +75,7 @@ def check_as_rotation(executor, statement, state, results, given, left, right):
     difference, complete = None, True
     if outcome != "holds":
         difference, complete, _ = executor._simplified(product, state, given)
-    used = list(dict.fromkeys(c.text for c in conditions)) if outcome == "holds" else []
+    used = list(dict.fromkeys(c.text for c in conditions)) if outcome != "undecided" else []
     results.append(executor._result(CheckResult, statement, outcome=outcome,
                                     difference=difference, conditions=used, complete=complete,
                                     rotation=True, note=sign or ""))
