@@ -40,12 +40,16 @@ def _emit_help() -> tuple[str, str]:
 
 
 HELP_TOPICS: dict[str, tuple[str, str]] = {
-    "check": ("check an identity: check L == R [given C = D, ...]",
+    "check": ("check an identity: check L == R [as rotation] [given C = D, ...]",
               "check L == R [given C = D, ...]\n"
               "  reports held, FAILED (with the simplified L - R, and its value at a point\n"
               "  where the sides differ when one is found) or undecided (saying why: the\n"
               "  time budget ran out, or what the method could not decide)\n"
-              "  example: vector a, b; check a b == a . b + a /\\ b"),
+              "  example: vector a, b; check a b == a . b + a /\\ b\n"
+              "check L == R as rotation [given C = D, ...]\n"
+              "  rotors L and R are the same rotation: L R~ is 1 or -1 (R and -R turn\n"
+              "  every vector alike); says which sign it found; refuses other values\n"
+              "  example: check rotor(e12, t + 2 pi) == rotor(e12, t) as rotation"),
     "given": ("side conditions of one check", "check L == R given C = D, E = F\n"
               "  example: vector a, b; check (a + b)^2 == a^2 + b^2 given a . b = 0"),
     "assume": ("session-wide side conditions: assume C = D, ... / assume none",
@@ -208,7 +212,8 @@ def _overview() -> str:
     lines = ["statements:",
              "  EXPR   NAME = EXPR   f(x, y) = EXPR   (a trailing ';' hides the result)",
              "  scalar | vector | bivector | rotor | multivector | matrix3 NAME[(t)], ... [unit]",
-             "  check L == R [given C = D, ...]    assume C = D, ... | assume none",
+             "  check L == R [as rotation] [given C = D, ...]",
+             "  assume C = D, ... | assume none",
              "  show [latex] EXPR [against B]      formula EXPR | formula auto | off",
              "  emit "
              f"{'|'.join(export_targets.TARGETS)} EXPR [as NAME] [to \"file\"]",

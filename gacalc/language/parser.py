@@ -669,11 +669,18 @@ class _StatementParser:
         if self.at_end():
             self.fail("expected the right-hand side after '=='")
         right = self.expression()
+        rotation = False
+        if self.check(T.KEYWORD, "as"):
+            self.advance()
+            if not self.check(T.NAME, "rotation"):
+                self.fail("a check compares 'as rotation': check L == R as rotation")
+            self.advance()
+            rotation = True
         given = []
         if self.check(T.KEYWORD, "given"):
             self.advance()
             given = self._conditions("given")
-        return S.Check(keyword.span, left, right, given)
+        return S.Check(keyword.span, left, right, given, rotation=rotation)
 
     def _statement_given(self):
         self.fail("'given' belongs after a check: check L == R given C = D")

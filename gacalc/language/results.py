@@ -131,6 +131,8 @@ class CheckResult(Result):
     out_of_time: bool = False     # undecided because the time budget ran out
     reason: str = ""              # undecided otherwise: the limit the method reached
     witness: tuple | None = None  # (point text, L - R there) of a failure at a point
+    rotation: bool = False     # check L == R as rotation: ``difference`` is then L R~
+    note: str = ""             # the sign found (as rotation); a failure's sign-only line
 
     def __post_init__(self):
         self.kind = "check"
@@ -147,6 +149,8 @@ class CheckResult(Result):
 
     def render(self, unicode: bool = False) -> str:
         statement = self.statement_text
+        if self.rotation:
+            return self._render_rotation(statement, unicode)
         if self.outcome == "holds":
             if self.conditions:
                 return f"held given {', '.join(self.conditions)}: {statement}"
@@ -154,7 +158,9 @@ class CheckResult(Result):
         if self.outcome == "fails":
             difference = self.difference_text(unicode).replace("\n", "\n      ")
             given = f" (given {', '.join(self.conditions)})" if self.conditions else ""
-            return f"FAILED: {statement}{given}\n  L - R = {difference}" + self._witness_line(unicode)
+            note = "".join(f"\n  {line}" for line in self.note.splitlines())
+            return (f"FAILED: {statement}{given}\n  L - R = {difference}"
+                    + self._witness_line(unicode) + note)
         if self.out_of_time or not self.reason:
             return (f"undecided: {statement} (could not decide whether L - R is zero within "
                     "the time budget)")
@@ -168,6 +174,18 @@ class CheckResult(Result):
         point, value = self.witness
         text = value_text(value, unicode, 10**6).replace("\n", " ")
         return f"\n  L - R = {text} at {unicode_text(point) if unicode else point}"
+
+    def _render_rotation(self, statement: str, unicode: bool) -> str:
+        """check L == R as rotation: the sign it found, or L R~ when that is not +-1."""
+        if self.outcome == "holds":
+            given = f" given {', '.join(self.conditions)}" if self.conditions else ""
+            return f"held{given}: {statement} (the same rotation: {self.note})"
+        if self.outcome == "fails":
+            product = self.difference_text(unicode).replace("\n", "\n      ")
+            given = f", given {', '.join(self.conditions)}" if self.conditions else ""
+            return (f"FAILED: {statement} (L R~ is neither 1 nor -1{given}: different rotations)"
+                    f"\n  L R~ = {product}")
+        return f"undecided: {statement} (could not decide whether L R~ is 1 or -1)"
 
 
 @dataclass

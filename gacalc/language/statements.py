@@ -229,6 +229,10 @@ class StatementExecutors:
         given = self._conditions(statement.given, state, results, statement, "given")
         left = self._evaluate(statement.left, state, results, statement, given)
         right = self._evaluate(statement.right, state, results, statement, given)
+        if statement.rotation:
+            from .rotation_check import check_as_rotation
+
+            return check_as_rotation(self, statement, state, results, given, left, right)
         differences = _differences(left, right, statement)
         conditions = relevant_conditions(state.conditions() + given, differences)
         exprs = [c.expr for c in conditions]
@@ -245,10 +249,16 @@ class StatementExecutors:
             difference = _reassemble(left, right, [s[0] for s in simplified])
         witness = _witness(self, decision, left, right, differences, state, given)
         texts = _unique(c.text for c in used)
+        note = ""
+        if outcome == "fails":   # say so when the sides differ only in sign (proved)
+            from .rotation_check import sign_only_note
+
+            note = sign_only_note(self, left, right, exprs)
         results.append(self._result(CheckResult, statement, outcome=outcome,
                                     difference=difference, conditions=texts,
                                     complete=complete, out_of_time=decision.out_of_time,
-                                    reason=decision.reason, witness=witness))
+                                    reason=decision.reason, witness=witness,
+                                    note=note))
 
     def _do_Assume(self, statement, state, results, context):
         if statement.clear:

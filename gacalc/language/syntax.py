@@ -182,6 +182,7 @@ class Check(Statement):
     left: Node
     right: Node
     given: list
+    rotation: bool = field(default=False, kw_only=True)   # check L == R as rotation
 
 
 @dataclass

@@ -25,6 +25,7 @@ from gacalc.algebra.coefficients import Coef, from_expr
 from gacalc.algebra.context import Simplifier, install_simplifier
 from gacalc.algebra.multivector import Multivector
 
+from .angles import ANGLE_SECONDS
 from .budget import Budget, BudgetExceeded, time_limit
 from .decision import (NONZERO, OUT_OF_TIME, ZERO, Decision, combine, nonzero_at,
                        opaque_reason, sample_points, undecided)
@@ -81,14 +82,17 @@ def _reduce_equations(coef: Coef, conditions, budget) -> Coef:
     return parts[0] if len(parts) == 1 else parts[0] / parts[1]
 
 
-def display_coef(coef: Coef, conditions=None, budget: Budget | None = None) -> Coef:
+def display_coef(coef: Coef, conditions=None, budget: Budget | None = None,
+                 angle_budget: Budget | None = None) -> Coef:
+    """The coefficient as it is printed; ``angle_budget`` is the share of the multiple-angle
+    rewrite (one for all coefficients of a value; its own when None)."""
     c = reduce_coef(coef, conditions, budget)
     if c is None or c.expr is not None:
         return c
     num, den = c.parts()
-    num = shortest_display(num, budget)
+    num = shortest_display(num, budget, angle_budget)
     if den is not None:
-        return num / shortest_display(den, budget)
+        return num / shortest_display(den, budget, angle_budget)
     return num
 
 
@@ -178,7 +182,8 @@ def simplify(mv: Multivector, conditions=(), budget=None) -> SimplifyResult:
     budget = _as_budget(budget)
     try:
         with time_limit(budget):
-            coefs = [display_coef(c, conditions, budget) for c in mv.coefs()]
+            angle_budget = budget.within(ANGLE_SECONDS)   # shared by the components
+            coefs = [display_coef(c, conditions, budget, angle_budget) for c in mv.coefs()]
     except BudgetExceeded:
         return SimplifyResult(mv, complete=False, message="simplification gave up within its time budget")
     return SimplifyResult(Multivector.from_coefs(coefs), True, tuple(conditions or ()))
