@@ -21,7 +21,7 @@ from functools import lru_cache
 from itertools import combinations
 
 import flint
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef, generator, registry, trig
 
