@@ -314,6 +314,10 @@ class _StatementParser:
             raise token_error(token)
         if token.kind == T.SUPERSCRIPT:
             self.fail("a superscript exponent needs something before it to raise")
+        if token.kind == T.STRING:
+            self.fail(f"{token.text} is a word in quotes: words are file names (use, save, "
+                      "emit ... to) and arguments naming a convention, as in "
+                      "euler_angles(R, \"zyx\")")
         if token.kind == T.KEYWORD:
             self.fail(f"'{token.text}' is a reserved word and cannot be used in an expression")
         if token.kind == T.DECLARATION:
