@@ -170,22 +170,28 @@ def _exact_angle(angle, conditions):
         candidate = sympy.Rational(ratio.numerator, ratio.denominator) * unit
         if abs(float(candidate) - value) > 1e-12:
             continue
-        if _proved_zero(sympy.sin(angle) - sympy.sin(candidate), conditions) \
-                and _proved_zero(sympy.cos(angle) - sympy.cos(candidate), conditions):
+        # one equation is enough this close: sin where it is locally one-to-one, else cos
+        use_sine = isinstance(angle, sympy.asin) or (
+            not isinstance(angle, sympy.acos) and abs(float(sympy.cos(candidate))) > 0.5)
+        function = sympy.sin if use_sine else sympy.cos
+        if _proved_zero(function(angle) - function(candidate), conditions,
+                        algebraic=unit is sympy.pi):
             return candidate
     return angle
 
 
-def _proved_zero(expr, conditions) -> bool:
-    """A numeric expression proved to be 0: by the simplifier's canonical form, else (an
-    algebraic number) by its minimal polynomial being the variable itself."""
-    if _vanishes(expr, conditions) is True:
-        return True
-    variable = sympy.Dummy("t")
-    try:
-        return sympy.minimal_polynomial(expr, variable) == variable
-    except (NotImplementedError, ValueError, TypeError, sympy.polys.polyerrors.PolynomialError):
-        return False
+def _proved_zero(expr, conditions, algebraic: bool) -> bool:
+    """A numeric expression proved to be 0: an algebraic number (radicals of p/q pi
+    angles) by its minimal polynomial being the variable itself, others by the
+    simplifier's canonical form (trigonometric families over their base angle)."""
+    if algebraic:
+        variable = sympy.Dummy("t")
+        try:
+            return sympy.minimal_polynomial(expr, variable) == variable
+        except (NotImplementedError, ValueError, TypeError,
+                sympy.polys.polyerrors.PolynomialError):
+            return False
+    return _vanishes(expr, conditions) is True
 
 
 def _lock(x, conditions):
