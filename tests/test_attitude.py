@@ -354,3 +354,17 @@ def test_words_unparse_and_highlight_as_strings():
     kinds = [str(kind) for kind, text in GacalcLexer().get_tokens('euler_angles(R, "zyx")')
              if text == '"zyx"']
     assert kinds == ["Token.Literal.String"]
+
+
+def test_show_of_a_rotor_lists_yaw_pitch_roll():
+    # scipy's as_euler("ZYX") of the same rotation is the reference
+    from gacalc.forms import build_report
+
+    R = A.from_euler_angles(A.axis_sequence("zyx"), [sympy.pi / 3, sympy.pi / 4, sympy.pi / 6])
+    item = build_report(R).item("yaw, pitch, roll")
+    assert "intrinsic zyx" in item.note
+    expected = Rotation.from_quat(quaternion_of(R)).as_euler("ZYX")
+    assert np.allclose([float(a.scalar_part()) for a in item.value], expected)
+    assert item.value[1] == Multivector.scalar(sympy.pi / 4)     # the middle angle exactly
+    locked = build_report(A.from_euler_angles(A.axis_sequence("zyx"), [1, sympy.pi / 2, 0]))
+    assert "gimbal lock" in locked.item("yaw, pitch, roll").note

@@ -96,8 +96,11 @@ class EulerResult:
     condition: object        # sympy scalar x: locked where x = 1 or x = -1 (None: never)
 
 
-def euler_angles(R, sequence: AxisSequence, conditions=()) -> EulerResult:
-    """The three angles of a rotor for the sequence, with its gimbal-lock state."""
+def euler_angles(R, sequence: AxisSequence, conditions=(), exact: str = "all") -> EulerResult:
+    """The three angles of a rotor for the sequence, with its gimbal-lock state.  ``exact``
+    ("all", "middle" or "none") says which numeric angles are tried as the p/q pi they
+    may equal: a proof per angle, quick for the middle one (its sine or cosine is a
+    matrix entry), up to a few tenths of a second for the outer ones."""
     R = _require_rotor(R, "euler_angles", conditions)
     M = rotation_matrix(R, conditions)
     floats = any(e.has(sympy.Float) for e in M)
@@ -130,8 +133,9 @@ def euler_angles(R, sequence: AxisSequence, conditions=()) -> EulerResult:
     angles = [first, middle, third]
     if floats:
         angles = [sympy.Float(sympy.N(a, 17)) for a in angles]
-    angles = [_exact_angle(_settled(simplified_scalar(a, conditions), conditions), conditions)
-              for a in angles]
+    angles = [_settled(simplified_scalar(a, conditions), conditions) for a in angles]
+    tried = {"all": (0, 1, 2), "middle": (1,), "none": ()}[exact]
+    angles = [_exact_angle(a, conditions) if k in tried else a for k, a in enumerate(angles)]
     if zero_first:
         angles.reverse()
     condition = None if locked is not None or _never_locked(x, conditions) else x

@@ -611,6 +611,7 @@ class _Builder:
         q = quaternion(r)
         self.add(FORMS, prefix + "quaternion", tuple(s.scalar(c) for c in (q.a, q.b, q.c, q.d)),
                  QUATERNION_NOTE)
+        self._attitude_item(r, prefix)
         self.add(FORMS, prefix + "Pauli matrix", s.matrix(pauli(r), complex_entries=True),
                  "e1, e2, e3 -> sigma_x, sigma_y, sigma_z; e123 -> i")
         if plane is not None:
@@ -621,6 +622,24 @@ class _Builder:
                      "R = -1 = exp(-P pi) for any unit bivector P")
         self.add(FORMS, prefix + "same rotation", s.mv(-r),
                  "-R: the same rotation, by 2*pi - angle about the opposite axis")
+
+    def _attitude_item(self, r: Multivector, prefix: str):
+        """Yaw, pitch, roll: the intrinsic zyx angles a gimbal reads (help attitude); the
+        exact-angle search of euler_angles runs for the (quick) middle angle only, to stay
+        within the section budget."""
+        from gacalc.algebra.attitude import axis_sequence, euler_angles
+        from gacalc.printing.text import scalar_text
+        from gacalc.values.sequence import value_list
+
+        s = self.s
+        result = euler_angles(r, axis_sequence("zyx"), s.conditions, exact="middle")
+        note = "intrinsic zyx, R = rotor(e3, yaw) rotor(e2, pitch) rotor(e1, roll)"
+        if result.locked is not None:
+            note += "; gimbal lock: roll set to 0"
+        elif result.condition is not None:
+            note += f"; gimbal lock where {scalar_text(result.condition)} = +-1"
+        angles = value_list(Multivector.scalar(s.scalar(a)) for a in result.angles)
+        self.add(FORMS, prefix + "yaw, pitch, roll", angles, note)
 
     def _rotary_reflection(self, images):
         """V = v + b I: with V/|V| = cos(t/2) n - sin(t/2) I it is the rotation by t about n

@@ -59,7 +59,7 @@ def _lock_note(ctx, sequence, result):
 
 @builtin('euler_angles(R, "zyx", ["intrinsic"])', "angles (a, b, c) of a rotor about the "
          "axes of a sequence such as \"zyx\" (yaw, pitch, roll), intrinsic (the default) or "
-         "\"extrinsic\"; gimbal lock is noted", 'euler_angles(rotor(e3, pi/3), "zyx")',
+         "\"extrinsic\"; gimbal lock is noted (help attitude)", 'euler_angles(rotor(e3, pi/3), "zyx")',
          "attitude", min_args=2, max_args=3, chain=(0, 0, 0), words=True)
 def _euler_angles(ctx, r, sequence, convention=None):
     from gacalc.algebra import Multivector
