@@ -368,3 +368,17 @@ def test_show_of_a_rotor_lists_yaw_pitch_roll():
     assert item.value[1] == Multivector.scalar(sympy.pi / 4)     # the middle angle exactly
     locked = build_report(A.from_euler_angles(A.axis_sequence("zyx"), [1, sympy.pi / 2, 0]))
     assert "gimbal lock" in locked.item("yaw, pitch, roll").note
+
+
+def test_upper_case_axes_are_refused_with_the_convention_words():
+    # scipy's upper case means intrinsic; ours says so in words, so case is not accepted
+    s = Session()
+    failure = s.run('euler_angles(rotor(e3, 1), "ZYX")')[-1]
+    assert isinstance(failure, GacalcError)
+    assert 'lower case, "zyx"' in failure.message and '"extrinsic"' in failure.message
+
+
+def test_floating_point_angles_print_as_floats():
+    s = Session()
+    got = value(s, 'euler_angles(numeric(rotor(e3, 1) rotor(e2, 1/2)), "zyx")')
+    assert kind_of(got).text(got) == "(1.0, 0.5, 0.0)"

@@ -59,7 +59,11 @@ class AxisSequence:
 
 def axis_sequence(text: str, intrinsic: bool = True) -> AxisSequence:
     """The sequence of a word such as "zyx"; AlgebraError with the rule when it is not one."""
-    word = text.strip().lower()
+    word = text.strip()
+    if word.lower() != word and len(word) == 3 and all(ch in AXIS_NAMES for ch in word.lower()):
+        raise AlgebraError(f"write the axes in lower case, \"{word.lower()}\": whether the "
+                           "turns are about the moving or the fixed axes is the word "
+                           "\"intrinsic\" (the default) or \"extrinsic\" after it")
     if len(word) != 3 or any(ch not in AXIS_NAMES for ch in word):
         raise AlgebraError(f"an axis sequence is three letters from x, y, z (such as zyx or "
                            f"zxz), not '{text}'")
@@ -132,7 +136,7 @@ def euler_angles(R, sequence: AxisSequence, conditions=(), exact: str = "all") -
         middle = sympy.asin(locked) if last != i else sympy.acos(locked)
     angles = [first, middle, third]
     if floats:
-        angles = [sympy.Float(sympy.N(a, 17)) for a in angles]
+        angles = [sympy.Float(float(sympy.N(a, 17))) for a in angles]
     angles = [_settled(simplified_scalar(a, conditions), conditions) for a in angles]
     tried = {"all": (0, 1, 2), "middle": (1,), "none": ()}[exact]
     angles = [_exact_angle(a, conditions) if k in tried else a for k, a in enumerate(angles)]
