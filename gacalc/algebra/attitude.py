@@ -139,7 +139,8 @@ def euler_angles(R, sequence: AxisSequence, conditions=(), exact: str = "all") -
         angles = [sympy.Float(float(sympy.N(a, 17))) for a in angles]
     angles = [_settled(simplified_scalar(a, conditions), conditions) for a in angles]
     tried = {"all": (0, 1, 2), "middle": (1,), "none": ()}[exact]
-    angles = [_exact_angle(a, conditions) if k in tried else a for k, a in enumerate(angles)]
+    angles = [_exact_angle(a, conditions) if position in tried else a
+              for position, a in enumerate(angles)]
     if zero_first:
         angles.reverse()
     condition = None if locked is not None or _never_locked(x, conditions) else x
