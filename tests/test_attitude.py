@@ -382,3 +382,22 @@ def test_floating_point_angles_print_as_floats():
     s = Session()
     got = value(s, 'euler_angles(numeric(rotor(e3, 1) rotor(e2, 1/2)), "zyx")')
     assert kind_of(got).text(got) == "(1.0, 0.5, 0.0)"
+
+
+def test_yaw_pitch_roll_out_of_time_leaves_the_other_forms(monkeypatch):
+    # the item runs under its own share of the section budget: when it runs out, only
+    # it is replaced by a line naming euler_angles (no timing here: the running out is
+    # simulated)
+    from gacalc.forms import build_report
+    from gacalc.forms import report as report_module
+    from gacalc.simplify.budget import BudgetExceeded
+
+    def out_of_time(self, r, prefix):
+        raise BudgetExceeded("time budget ran out")
+
+    monkeypatch.setattr(report_module._Builder, "_attitude_item", out_of_time)
+    report = build_report(A.from_euler_angles(A.axis_sequence("zyx"), [1, 2, 3]),
+                          section_seconds=report_module.SECTION_SECONDS, source="R")
+    assert "quaternion" in report and "rotation matrix" in report
+    item = report.item("yaw, pitch, roll")
+    assert item.value == "omitted" and 'euler_angles(R, "zyx")' in item.note
