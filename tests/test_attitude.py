@@ -401,3 +401,27 @@ def test_yaw_pitch_roll_out_of_time_leaves_the_other_forms(monkeypatch):
     assert "quaternion" in report and "rotation matrix" in report
     item = report.item("yaw, pitch, roll")
     assert item.value == "omitted" and 'euler_angles(R, "zyx")' in item.note
+
+
+@pytest.mark.parametrize("intrinsic", [True, False])
+def test_symbolic_formulas_agree_with_sympy_quaternion_to_euler(intrinsic):
+    # sympy.algebras.quaternion.Quaternion.to_euler (sympy's own Euler angles, upper case
+    # = intrinsic as in scipy) is a second reference: our formulas in R0, R23, R31, R12 at
+    # a random unit quaternion against sympy's angles of that quaternion (sympy's outer
+    # angles are not wrapped to (-pi, pi], so they agree modulo 2 pi)
+    from sympy.algebras.quaternion import Quaternion
+
+    from gacalc.algebra import symbolic
+
+    R, conditions = symbolic("rotor", "R")
+    names = {name: sympy.Symbol(name, real=True) for name in ("R0", "R23", "R31", "R12")}
+    rotation = Rotation.random(random_state=91 + intrinsic)
+    x, y, z, w = rotation.as_quat()
+    point = {names["R0"]: w, names["R23"]: -x, names["R31"]: -y, names["R12"]: -z}
+    for sequence in SEQUENCES:
+        got = A.euler_angles(R, A.axis_sequence(sequence, intrinsic), conditions)
+        ours = [float(angle.subs(point)) for angle in got.angles]
+        reference = Quaternion(w, x, y, z).to_euler(scipy_sequence(sequence, intrinsic))
+        # sympy adds two atan2 values without wrapping: compare the angles modulo 2 pi
+        gap = np.array(ours) - np.array([float(a) for a in reference])
+        assert np.allclose(np.angle(np.exp(1j * gap)), 0, atol=1e-9), sequence
