@@ -31,6 +31,7 @@ class Builtin:
     category: str
     chain: tuple[int, ...] = LINEAR
     estimate: Callable | None = None    # (args, span): its own size check instead of chain
+    words: bool = False                 # takes words in quotes ("zyx") as arguments
 
     def arity_text(self) -> str:
         if self.min_args == self.max_args:
@@ -44,9 +45,11 @@ BUILTINS: dict[str, Builtin] = {}
 
 def builtin(signature: str, help: str, example: str, category: str,
             min_args: int | None = None, max_args: int | None = None, *,
-            chain: tuple[int, ...] = LINEAR, estimate: Callable | None = None):
+            chain: tuple[int, ...] = LINEAR, estimate: Callable | None = None,
+            words: bool = False):
     """Register an implementation; arity defaults to the count in the signature.
-    ``chain`` (or ``estimate``) is what the size limits check before a call."""
+    ``chain`` (or ``estimate``) is what the size limits check before a call; ``words``
+    lets arguments be words in quotes (they arrive as Python strings)."""
     name, _, rest = signature.partition("(")
     params = [p.strip() for p in rest.rstrip(")").split(",") if p.strip()]
     required = [p for p in params if not p.startswith("[")]
@@ -57,7 +60,7 @@ def builtin(signature: str, help: str, example: str, category: str,
             min_args=len(required) if min_args is None else min_args,
             max_args=len(params) if max_args is None else max_args,
             signature=signature, help=help, example=example, impl=function,
-            category=category, chain=chain, estimate=estimate)
+            category=category, chain=chain, estimate=estimate, words=words)
         return function
 
     return register
@@ -549,5 +552,6 @@ def _ln(ctx, x):
 
 from . import builtins_calculus  # noqa: E402,F401  (diff, nabla, jacobian, ...)
 from . import builtins_subspaces  # noqa: E402,F401  (meet, join, factor, frames, linmap)
+from . import builtins_attitude  # noqa: E402,F401  (Euler angles, rotation vectors)
 
 BUILTIN_NAMES: tuple[str, ...] = tuple(sorted(BUILTINS))

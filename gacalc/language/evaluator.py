@@ -509,7 +509,7 @@ class Evaluator:
         if not function.min_args <= count <= function.max_args:
             raise GacalcTypeError(f"{function.name} takes {function.arity_text()}, not "
                                   f"{count}: {function.signature}", node.span)
-        args = [self.evaluate(arg, frame) for arg in node.args]
+        args = [self._builtin_argument(function, arg, frame) for arg in node.args]
         limits.check_call(function, args, node.span)
         context = CallContext(self, function, node, args)
         try:
@@ -528,6 +528,20 @@ class Evaluator:
             check_finite(result.scalar_part(), node.span)      # a rational is finite
         limits.check_value(result, node.span, f"the result of {function.name}")
         return result
+
+    def _builtin_argument(self, function, arg: S.Node, frame):
+        """An argument's value; a word in quotes stays a Python str where words are taken."""
+        if isinstance(arg, S.Text) and function.words:
+            return arg.value
+        if isinstance(arg, S.Text):
+            raise GacalcTypeError(f"{function.name} takes no words in quotes here: "
+                                  f"\"{arg.value}\" is not a value", arg.span)
+        return self.evaluate(arg, frame)
+
+    def _eval_Text(self, node: S.Text, frame):
+        raise GacalcTypeError(f"\"{node.value}\" is a word in quotes, not a value: words "
+                              "name conventions in calls such as euler_angles(R, \"zyx\")",
+                              node.span)
 
     def call_user(self, function: UserFunction, node: S.Call, frame):
         count = len(node.args)
@@ -626,6 +640,17 @@ class CallContext:
 
     def inverse(self, value, index: int):
         return self.evaluator.inverse(value, self.span(index))
+
+    def word(self, index: int, example: str) -> str:
+        """A word in quotes (for built-ins registered with words=True)."""
+        value = self.args[index]
+        if not isinstance(value, str):
+            raise GacalcTypeError(f"{self._what(index)} must be a word in quotes such as "
+                                  f"{example}, not {describe_value(value)}", self.span(index))
+        return value
+
+    def is_word(self, index: int) -> bool:
+        return isinstance(self.args[index], str)
 
     def quaternion(self, index: int):
         value = self.args[index]

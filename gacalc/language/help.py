@@ -121,6 +121,19 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
                  "              d/dt (R x R~) = cross(w, R x R~)\n"
                  "series(X, s, s0, n)  Taylor polynomial through (s - s0)^n\n"
                  "  example: scalar w, t; angular_velocity(rotor(e12, w t), t)"),
+    "attitude": ("Euler / Tait-Bryan angles and rotation vectors: euler_angles, "
+                 "from_euler_angles, rotation_vector, from_rotation_vector",
+                 "euler_angles(R, \"zyx\")   the angles (a, b, c) of a rotor, a list; angles in\n"
+                 "              radians, rotations active (R x R~), rotor(e3, t) = exp(-e12 t/2)\n"
+                 "sequences: \"xyz\" ... (six Tait-Bryan) and \"zxz\" ... (six proper Euler)\n"
+                 "\"intrinsic\" (the default) turns about the moving axes, R = R1(a) R2(b) R3(c);\n"
+                 "\"extrinsic\" about the fixed axes in the order written, R = R3(c) R2(b) R1(a)\n"
+                 "yaw-pitch-roll is \"zyx\" intrinsic; ranges: a, c in (-pi, pi], b in\n"
+                 "              [-pi/2, pi/2] (Tait-Bryan) or [0, pi] (proper Euler)\n"
+                 "gimbal lock (b at +-pi/2, or 0, pi): a note; the third angle is set to 0\n"
+                 "from_euler_angles(\"zyx\", a, b, c [, \"extrinsic\"])   the rotor (or a list (a, b, c))\n"
+                 "rotation_vector(R)   theta n with |theta| <= pi; from_rotation_vector(v) = exp(-v I/2)\n"
+                 "  example: euler_angles(from_euler_angles(\"zyx\", pi/3, pi/4, pi/6), \"zyx\")"),
     "matrix3": ("declare symbolic 3x3 matrices: matrix3 M",
                 "matrix3 M   entries M11 M12 M13 M21 ... M33 (row, column); linmap(M) is\n"
                 "            the linear map with that matrix\n"

@@ -314,6 +314,10 @@ class _StatementParser:
             raise token_error(token)
         if token.kind == T.SUPERSCRIPT:
             self.fail("a superscript exponent needs something before it to raise")
+        if token.kind == T.STRING:
+            self.fail(f"{token.text} is a word in quotes: words are file names (use, save, "
+                      "emit ... to) and arguments naming a convention, as in "
+                      "euler_angles(R, \"zyx\")")
         if token.kind == T.KEYWORD:
             self.fail(f"'{token.text}' is a reserved word and cannot be used in an expression")
         if token.kind == T.DECLARATION:
@@ -391,7 +395,13 @@ class _StatementParser:
             while True:
                 if self.check(T.COMMA):
                     self.fail("missing argument before ','")
-                args.append(self._bracketed())
+                if self.check(T.STRING):
+                    # a word in quotes ("zyx") naming a convention: only the built-ins
+                    # that take one accept it (the evaluator says so)
+                    word = self.advance()
+                    args.append(S.Text(word.span, word.value))
+                else:
+                    args.append(self._bracketed())
                 if self.check(T.COMMA):
                     self.advance()
                     if self.check(T.RPAREN):
@@ -446,7 +456,8 @@ class _StatementParser:
         if kind in (T.KEYWORD, T.DECLARATION):
             self.fail(f"unexpected '{token.text}' here")
         if kind == T.STRING:
-            self.fail("unexpected string: strings are paths for use, save and emit ... to")
+            self.fail("unexpected string: strings are paths for use, save and emit ... to, "
+                      "and words such as \"zyx\" in a call of euler_angles")
         self.fail(f"unexpected {describe(token)}")
 
     def _new_name(self, token: Token, what: str) -> str:

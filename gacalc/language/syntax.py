@@ -95,6 +95,14 @@ class Call(Node):
 
 
 @dataclass
+class Text(Node):
+    """``"zyx"``: a word in double quotes, accepted only as an argument of the built-ins
+    that name a convention with one (``euler_angles(R, "zyx")``); never a value."""
+
+    value: str
+
+
+@dataclass
 class ListLiteral(Node):
     """``(a, b, c)``: a list of values (two or more items, in parentheses)."""
 
@@ -385,6 +393,9 @@ class _Unparser:
         args = ", ".join(self.text(arg) for arg in node.args)
         space = " " if node.spaced else ""
         return f"{_greek(node.name, self.unicode)}{space}({args})", _PREC_ATOM
+
+    def visit_Text(self, node):
+        return f'"{node.value}"', _PREC_ATOM
 
     def visit_ListLiteral(self, node):
         return "(" + ", ".join(self.text(item) for item in node.items) + ")", _PREC_ATOM
