@@ -137,3 +137,13 @@ def test_ctrl_c_stops_the_workers(tmp_path):
     # the pool is joined before the program exits: no worker is left in its group
     with pytest.raises(ProcessLookupError):
         os.killpg(process.pid, 0)
+
+
+def test_flags_pass_through_to_the_workers(tmp_path):
+    # the budget statement prints the budget each worker's session received
+    names = _files(tmp_path, [("one.gac", "budget\n"), ("two.gac", "budget\nx = 1/0\n")])
+    sequential = gacalc(["--statement-budget", "7", *names], tmp_path)
+    parallel = gacalc(["--statement-budget", "7", "-j", "2", *names], tmp_path)
+    assert parallel == sequential
+    assert parallel[1].decode().count("each statement may run 7 s") == 2
+    assert parallel[0] == 2

@@ -98,6 +98,7 @@ class Session(StatementExecutors, FileStatements):
         self.algebra = AlgebraContext()   # this session's generators and caches
         self._working: State | None = None
         self._clock = StatementClock()
+        self._pending_budget: float | None = None   # set by a budget statement that runs
         self.current_span: Span | None = None   # statement being run (for interrupts)
 
     # Read-only views of the state ----------------------------------------------------
@@ -219,7 +220,8 @@ class Session(StatementExecutors, FileStatements):
                 return
 
     def _seconds(self) -> float | None:
-        seconds = self.statement_budget
+        seconds = self.statement_budget if self._pending_budget is None else \
+            self._pending_budget
         if seconds is None or seconds <= 0 or math.isinf(seconds):
             return None
         return float(seconds)
@@ -229,6 +231,7 @@ class Session(StatementExecutors, FileStatements):
         self._working = scratch
         self.current_span = statement.span
         results: list = []
+        self._pending_budget = None
         try:
             with statement_budget(self._clock, self._seconds()), self.algebra.active():
                 self._execute(statement, scratch, results, context)
@@ -244,7 +247,7 @@ class Session(StatementExecutors, FileStatements):
             return [GacalcLimitError(
                 f"the statement ran out of its time budget ({self._seconds():g} s) and was "
                 "abandoned; the session is unchanged", statement.span,
-                hint="a simpler form, fewer symbols, or a larger statement budget")]
+                hint="a simpler form, fewer symbols, or a larger budget: budget SECONDS")]
         except RecursionError:
             return [GacalcLimitError("expression too deeply nested to evaluate",
                                      statement.span)]
@@ -256,7 +259,10 @@ class Session(StatementExecutors, FileStatements):
         finally:
             self._working = None
             self.current_span = None
+            pending, self._pending_budget = self._pending_budget, None
         self._state = scratch           # one assignment: the commit is atomic
+        if pending is not None:
+            self.statement_budget = pending
         return results
 
     # Statements ---------------------------------------------------------------------
