@@ -65,6 +65,9 @@ DEFAULT_STATEMENT_BUDGET = 30.0   # seconds of wall-clock time for one statement
 # The REPL's default is lower: a person is waiting at the prompt, and a script run
 # unattended may take its time.  Both are set by --statement-budget.
 REPL_STATEMENT_BUDGET = 10.0
+# A session's generator registry is renewed (only the generators its values use kept)
+# when it holds more than this many, or twice what the last renewal kept.
+RENEW_REGISTRY_ABOVE = 64
 
 
 # The session -------------------------------------------------------------------------
@@ -99,6 +102,7 @@ class Session(StatementExecutors, FileStatements):
         self._working: State | None = None
         self._clock = StatementClock()
         self._pending_budget: float | None = None   # set by a budget statement that runs
+        self._renew_above = RENEW_REGISTRY_ABOVE       # generators before a fresh registry
         self.current_span: Span | None = None   # statement being run (for interrupts)
 
     # Read-only views of the state ----------------------------------------------------
@@ -263,7 +267,22 @@ class Session(StatementExecutors, FileStatements):
         self._state = scratch           # one assignment: the commit is atomic
         if pending is not None:
             self.statement_budget = pending
+        if len(self.algebra.registry) > self._renew_above:
+            self._renew_algebra()
         return results
+
+    def _renew_algebra(self):
+        """Start a fresh generator registry holding only what the session's values use,
+        so that symbols declared and dropped long ago cost nothing (gacalc.algebra.compaction).
+        The next renewal waits until the registry has doubled again: the work stays in
+        proportion to the growth."""
+        from gacalc.algebra.compaction import renewed
+
+        try:
+            self.algebra = renewed(self.algebra, (self._state,))
+        except KeyboardInterrupt:
+            pass       # values are unchanged either way; renew after a later statement
+        self._renew_above = max(RENEW_REGISTRY_ABOVE, 2 * len(self.algebra.registry))
 
     # Statements ---------------------------------------------------------------------
     def _execute(self, statement: S.Statement, state: State, results: list,
