@@ -79,9 +79,9 @@ def error_text(error) -> str:
     text = error.caret_text()
     if getattr(error, "kind", "") == "internal":
         logged = log_internal_error(error)
-        text += ("\n  this is a bug in gacalc; the session is unchanged; details were "
-                 f"written to {logged}" if logged else
-                 "\n  this is a bug in gacalc; the session is unchanged")
+        text += "\n  this is a bug in gacalc; the session is unchanged"
+        if logged and logged not in error.message:     # the session's message names it
+            text += f"; details were written to {logged}"
     return text
 
 
