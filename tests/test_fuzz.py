@@ -5,7 +5,9 @@ built-in with right and wrong arities, declarations, checks, Unicode, control ch
 unterminated brackets and strings) and token / character soup all go through
 ``Session.run``; each result and error is also rendered, since printing is part of what
 reaches the user.  A GacalcInternalError (our bug), any Python exception escaping the
-session, RecursionError or MemoryError fails the test.
+session, RecursionError or MemoryError fails the test.  One property also times each
+statement under a 2 s statement budget: none may take longer than the budget plus a wide
+margin (the budget is honoured, by a result, an error or the budget's own message).
 
 The default run is about 2,500 examples, reproducible (derandomize=True) so CI sees the
 same inputs every time.  For a longer local hunt set GACALC_FUZZ_EXAMPLES (examples per
