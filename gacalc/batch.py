@@ -62,12 +62,21 @@ def _context():
     return multiprocessing.get_context()
 
 
+def _warm_up(options):
+    """Import and first-use work done once in the parent, so that forked workers share it
+    instead of each paying for it: the language, the printers, the simplifier's caches."""
+    from gacalc.runner import ScriptRunner
+
+    chunks: list = []
+    ScriptRunner(options, out=_Recorder(chunks, OUT), err=_Recorder(chunks, ERR)).run_text(
+        "vector a, b\ncheck a b == a . b + a /\\ b\n(a + e1)/2", "<warm-up>")
+
+
 class ParallelFiles:
     """The recorded runs of ``paths``, handed out in file order as they finish."""
 
     def __init__(self, paths: list[str], options, jobs: int):
-        import gacalc.language  # noqa: F401  (imported once here, shared by forked workers)
-
+        _warm_up(options)
         self._pool = _context().Pool(min(jobs, len(paths)), initializer=_ignore_interrupts)
         self._results = self._pool.imap(_run_in_worker, [(path, options) for path in paths],
                                         chunksize=1)
