@@ -79,9 +79,9 @@ def error_text(error) -> str:
     text = error.caret_text()
     if getattr(error, "kind", "") == "internal":
         logged = log_internal_error(error)
-        text += ("\n  this is a bug in gacalc; the session is unchanged; details were "
-                 f"written to {logged}" if logged else
-                 "\n  this is a bug in gacalc; the session is unchanged")
+        text += "\n  this is a bug in gacalc; the session is unchanged"
+        if logged and logged not in error.message:     # the session's message names it
+            text += f"; details were written to {logged}"
     return text
 
 
@@ -277,23 +277,53 @@ class ScriptRunner:
         return self.run_text(text, path)
 
     def run_files(self, paths: list[str], headings: bool | None = None,
-                  titles: dict | None = None) -> Tally:
+                  titles: dict | None = None, jobs: int = 1) -> Tally:
         """Each file in a fresh session; with several files, a heading for each (its
-        title, default the path) and a closing line over all of them."""
+        title, default the path) and a closing line over all of them.  ``jobs`` > 1 runs
+        the files in that many worker processes (gacalc.batch); the output is the same."""
         headings = len(paths) > 1 if headings is None else headings
         titles = titles or {}
         total = Tally()
-        for index, path in enumerate(paths):
-            if headings:
-                if index:
-                    self._print()
-                self._print(self.style.paint("heading", f"== {titles.get(path, path)} =="))
-            tally = self.run_file(path)
-            total.add(tally)
-            if tally.interrupted:
-                break
+        parallel = None
+        if jobs > 1 and len(paths) > 1:
+            from gacalc.batch import ParallelFiles
+
+            parallel = ParallelFiles(paths, self.options, jobs)
+            finished = iter(parallel)
+        try:
+            for index, path in enumerate(paths):
+                if headings:
+                    if index:
+                        self._print()
+                    self._print(self.style.paint("heading", f"== {titles.get(path, path)} =="))
+                if parallel is None:
+                    tally = self.run_file(path)
+                else:
+                    tally = self._replay_next(finished)
+                total.add(tally)
+                if tally.interrupted:
+                    break
+        except BaseException:
+            if parallel is not None:       # Ctrl-C while printing, a closed pipe: stop all
+                parallel.close(interrupted=True)
+            raise
+        if parallel is not None:
+            parallel.close(interrupted=total.interrupted)
         if len(paths) > 1 and total.checks and not total.interrupted:
             self._print()
             self._print(f"all {total.files} files: {total.passed} passed, "
                         f"{total.failed + total.undecided} failed")
         return total
+
+    def _replay_next(self, finished) -> Tally:
+        """The next file's recorded output, printed; Ctrl-C while waiting stops the run."""
+        from gacalc.batch import replay
+
+        self.out.flush()            # the heading shows while the file is still running
+        try:
+            chunks, tally = next(finished)
+        except KeyboardInterrupt:
+            self._print_error("interrupted")
+            return Tally(interrupted=True)
+        replay(chunks, self.out, self.err)
+        return tally

@@ -4,7 +4,7 @@
 heavy libraries ended up in sys.modules.  The values printed are checked against the
 conventions of DESIGN.md and tests/ga_reference.py (an independent numpy Cl(3,0)), and the
 first statement that does need sympy must still work in the same process.  No timing
-here: the start-up time is measured by `python scripts/bench.py --startup`.
+here: the start-up time is measured by `python scripts/bench.py --only startup`.
 """
 
 import json

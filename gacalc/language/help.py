@@ -71,6 +71,14 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
                 "formula auto   print every result as a formula when one is found\n"
                 "formula off    print components again (F3 in the REPL switches)\n"
                 "  example: vector a, b, c; formula a _| (b /\\ c)"),
+    "budget": ("the time each statement may take: budget SECONDS / budget none / budget",
+               "budget SECONDS   each later statement is abandoned after this many seconds\n"
+               "                 of wall-clock time (the session stays as it was)\n"
+               "budget none      no time limit (Ctrl-C still stops a statement)\n"
+               "budget           prints the budget in force\n"
+               "  the default is 10 s in the interactive calculator and 30 s for scripts\n"
+               "  (--statement-budget SECONDS sets it at start)\n"
+               "  example: budget 5"),
     "against": ("compare a shown value with another: show EXPR against B",
                 "  example: show e1 + e2 against e12"),
     "as": ("the function name of emitted code", "  example: emit c a b as product"),
@@ -230,7 +238,7 @@ def _overview() -> str:
              "  show [latex] EXPR [against B]      formula EXPR | formula auto | off",
              "  emit "
              f"{'|'.join(export_targets.TARGETS)} EXPR [as NAME] [to \"file\"]",
-             "  use \"file\"   save \"file\" [force]   help [NAME]",
+             "  use \"file\"   save \"file\" [force]   help [NAME]   budget [SECONDS | none]",
              "  draw X, ... [to \"file.svg\"]",
              "functions:"]
     for category, names in categories.items():

@@ -19,6 +19,7 @@ Statements end at a newline or ';' (a ';' silences the result); see ``parse_stat
 
 from __future__ import annotations
 
+import math
 from typing import Iterator
 
 from gacalc.export import targets as export_targets
@@ -31,6 +32,7 @@ from .scanner import Token, scan, token_error
 MAX_STATEMENT_CHARS = 200_000
 MAX_DEPTH = 100
 MAX_NUMBER_DIGITS = 1000
+MAX_BUDGET_SECONDS = 86_400      # a day; longer is 'budget none'
 
 _WEDGE_KINDS = (T.WEDGE, T.LCONTRACT, T.RCONTRACT, T.INNER)
 _PRIMARY_START = frozenset(T.NAME_KINDS | {T.NUMBER, T.LPAREN, T.LANGLE})
@@ -786,6 +788,26 @@ class _StatementParser:
             self.advance()
             force = True
         return S.Save(keyword.span, token.value, token.span, force)
+
+    def _statement_budget(self) -> S.Statement:
+        keyword = self.advance()
+        if self.at_end():
+            return S.BudgetSetting(keyword.span, None)
+        token = self.peek()
+        if token.is_name and token.value == "none" and self.peek(1).kind in _STATEMENT_END:
+            self.advance()
+            return S.BudgetSetting(keyword.span, math.inf)
+        usage = "budget takes a number of seconds: budget 5 (budget none: no limit)"
+        if token.kind != T.NUMBER:
+            self.fail(usage)
+        if self.peek(1).kind not in _STATEMENT_END:
+            self.fail(usage, self.peek(1).span)
+        self.advance()
+        seconds = _fraction(token.text) if len(token.text) <= MAX_NUMBER_DIGITS else None
+        if seconds is None or not 0 < seconds <= MAX_BUDGET_SECONDS:
+            self.fail(f"a budget is more than 0 and at most {MAX_BUDGET_SECONDS} seconds "
+                      "(budget none: no limit)", token.span)
+        return S.BudgetSetting(keyword.span, float(seconds))
 
     def _statement_help(self) -> S.Statement:
         keyword = self.advance()

@@ -39,6 +39,9 @@ class Result(Positioned):
     def text(self) -> str:
         """The rendered result; a bug in a printer becomes one line naming the log file
         with its traceback (front-ends print results outside the session's guard)."""
+        failed = self.__dict__.get("_failed_text")
+        if failed is not None:           # reported once: reading the text again re-logs nothing
+            return failed
         try:
             return self.render(self.unicode)
         except Exception as error:       # noqa: BLE001 - our bug, reported, not raised
@@ -47,7 +50,9 @@ class Result(Positioned):
             where = self.span.location if self.span is not None else ""
             path = write_internal_error(error, self.statement_text, where)
             message = f"internal error while printing this result ({summary(error)})"
-            return message + (f"; the traceback is in {path}" if path is not None else "")
+            message += f"; the traceback is in {path}" if path is not None else ""
+            self.__dict__["_failed_text"] = message
+            return message
 
     def render(self, unicode: bool = False) -> str:   # pragma: no cover - overridden
         raise NotImplementedError

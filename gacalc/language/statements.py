@@ -18,6 +18,7 @@ from .errors import GacalcError, GacalcMathError, GacalcNameError, GacalcTypeErr
 from .evaluator import (Condition, Evaluator, State, UserFunction, is_multivector,
                         relevant_conditions, symbol)
 from .help import help_text, wrapped
+from .watchdog import restart as restart_clock
 from .results import (CheckResult, DeclarationResult, EmitResult, HelpResult, NoteResult,
                       ShowResult, ValueResult)
 
@@ -364,6 +365,20 @@ class StatementExecutors:
             raise GacalcError(MISSING if error.name == "numpy" else str(error),
                               statement.span) from None
         run_draw(self, statement, state, results, context)
+
+    def _do_BudgetSetting(self, statement, state, results, context):
+        # a session setting: it holds for the statements after this one, those of a file
+        # being used too (the clock restarts with the new length); the session keeps it
+        # when the statement that set it succeeds (Session._run_one)
+        if statement.seconds is not None:
+            self._pending_budget = statement.seconds
+            self._clock.start(self._seconds())
+            restart_clock(self._clock)
+        seconds = self._seconds()
+        results.append(self._note(statement, (
+            f"each statement may run {seconds:g} s (budget SECONDS changes it, budget none "
+            "lifts it)") if seconds is not None else
+            "statements run without a time limit (budget SECONDS sets one)"))
 
     def _do_Help(self, statement, state, results, context):
         text = help_text(statement.topic, state.functions)

@@ -240,6 +240,14 @@ class Save(Statement):
 
 
 @dataclass
+class BudgetSetting(Statement):
+    """budget SECONDS / budget none (no limit): the time of each later statement;
+    ``budget`` alone (``seconds`` None) prints it."""
+
+    seconds: float | None
+
+
+@dataclass
 class Help(Statement):
     topic: str | None
 
