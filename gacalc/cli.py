@@ -25,6 +25,8 @@ examples:
   gacalc --demo                           run the shipped demo scripts
   gacalc --demo gimbal                    run one demo (periscope, retroreflector, gimbal, spin)
   gacalc mirrors.gac                      run a script; exit 0 when every check held
+  gacalc -j 4 checks/*.gac                run many scripts in 4 processes; the output
+                                          is printed in file order, as one by one
   gacalc -e 'vector a, b; a b'            run statements given here
   gacalc -e 'check e1 e2 == -e2 e1'       check an identity
   echo 'rotate(rotor(e12, pi/2), e1)' | gacalc
@@ -46,6 +48,9 @@ def build_parser() -> argparse.ArgumentParser:
                         metavar="STATEMENTS",
                         help="run these statements (separated by ';' or newlines); may be "
                              "repeated, all run in one session")
+    parser.add_argument("-j", "--jobs", type=int, metavar="N", default=1,
+                        help="run the script files in N processes at once (default 1: one "
+                             "after the other); the output stays in file order")
     parser.add_argument("--demo", action="store_true",
                         help="run the demo scripts shipped with gacalc (all, or the ones "
                              "named)")
@@ -133,13 +138,15 @@ def _run_scripts(args, options) -> int:
         total.add(runner.run_text(text, "<stdin>"))
     elif files and not total.interrupted:
         total.add(runner.run_files(files, headings=len(files) > 1 or args.demo,
-                                   titles=args.titles))
+                                   titles=args.titles, jobs=args.jobs))
     return total.exit_status()
 
 
 def main(argv: list[str] | None = None) -> int:
     parser = build_parser()
     args = parser.parse_args(argv)
+    if args.jobs < 1:
+        parser.error("-j/--jobs must be a whole number of processes, at least 1")
     if args.budget is not None and not args.budget > 0:
         parser.error("--budget must be a positive number of seconds")
     if args.statement_budget is not None and not args.statement_budget > 0:

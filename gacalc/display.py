@@ -109,6 +109,14 @@ def _check(result) -> dict:
     if result.difference is not None:
         difference = html.escape(_value_latex(result.difference), quote=False)
         parts.append(f'<br>$L - R = {difference}$')
+    if result.witness is not None:         # where the two sides differ
+        point, value = result.witness
+        at = html.escape(_value_latex(value), quote=False)
+        parts.append(f"<br>$L - R = {at}$ at <code>{html.escape(point)}</code>")
+    if result.outcome == "undecided":      # why: the budget, or the method's limit
+        why = ("within the time budget" if result.out_of_time or not result.reason
+               else result.reason)
+        parts.append(f"<br>({html.escape(why)})")
     parts.append("</div>")
     return {"text/html": "".join(parts)}
 

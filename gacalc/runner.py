@@ -79,9 +79,9 @@ def error_text(error) -> str:
     text = error.caret_text()
     if getattr(error, "kind", "") == "internal":
         logged = log_internal_error(error)
-        text += ("\n  this is a bug in gacalc; the session is unchanged; details were "
-                 f"written to {logged}" if logged else
-                 "\n  this is a bug in gacalc; the session is unchanged")
+        text += "\n  this is a bug in gacalc; the session is unchanged"
+        if logged and logged not in error.message:     # the session's message names it
+            text += f"; details were written to {logged}"
     return text
 
 
@@ -104,6 +104,7 @@ class Tally:
     passed: int = 0
     failed: int = 0
     undecided: int = 0
+    out_of_time: int = 0        # the undecided ones whose time budget ran out
     errors: int = 0
     interrupted: bool = False
     files: int = 0
@@ -116,6 +117,7 @@ class Tally:
         self.passed += other.passed
         self.failed += other.failed
         self.undecided += other.undecided
+        self.out_of_time += other.out_of_time
         self.errors += other.errors
         self.interrupted = self.interrupted or other.interrupted
         self.files += other.files
@@ -125,10 +127,18 @@ class Tally:
             return []
         lines = []
         if self.undecided:
-            lines.append(f"({self.undecided} undecided within the time budget, counted as "
-                         "failed)")
+            lines.append(f"({self.undecided_text()}, counted as failed)")
         lines.append(f"{self.passed} passed, {self.failed + self.undecided} failed")
         return lines
+
+    def undecided_text(self) -> str:
+        """'2 undecided' with how many of them ran out of time (the rest met a limit of
+        the method, said on their own lines)."""
+        if self.out_of_time == self.undecided:
+            return f"{self.undecided} undecided within the time budget"
+        if self.out_of_time:
+            return f"{self.undecided} undecided, {self.out_of_time} of them within the time budget"
+        return f"{self.undecided} undecided"
 
     def exit_status(self) -> int:
         if self.interrupted:
@@ -208,6 +218,8 @@ class ScriptRunner:
                 tally.failed += 1
             else:
                 tally.undecided += 1
+                tally.out_of_time += bool(getattr(result, "out_of_time", False)
+                                          or not getattr(result, "reason", ""))
         text = styled_result(result, self.style)
         if text is None:
             return
@@ -265,23 +277,53 @@ class ScriptRunner:
         return self.run_text(text, path)
 
     def run_files(self, paths: list[str], headings: bool | None = None,
-                  titles: dict | None = None) -> Tally:
+                  titles: dict | None = None, jobs: int = 1) -> Tally:
         """Each file in a fresh session; with several files, a heading for each (its
-        title, default the path) and a closing line over all of them."""
+        title, default the path) and a closing line over all of them.  ``jobs`` > 1 runs
+        the files in that many worker processes (gacalc.batch); the output is the same."""
         headings = len(paths) > 1 if headings is None else headings
         titles = titles or {}
         total = Tally()
-        for index, path in enumerate(paths):
-            if headings:
-                if index:
-                    self._print()
-                self._print(self.style.paint("heading", f"== {titles.get(path, path)} =="))
-            tally = self.run_file(path)
-            total.add(tally)
-            if tally.interrupted:
-                break
+        parallel = None
+        if jobs > 1 and len(paths) > 1:
+            from gacalc.batch import ParallelFiles
+
+            parallel = ParallelFiles(paths, self.options, jobs)
+            finished = iter(parallel)
+        try:
+            for index, path in enumerate(paths):
+                if headings:
+                    if index:
+                        self._print()
+                    self._print(self.style.paint("heading", f"== {titles.get(path, path)} =="))
+                if parallel is None:
+                    tally = self.run_file(path)
+                else:
+                    tally = self._replay_next(finished)
+                total.add(tally)
+                if tally.interrupted:
+                    break
+        except BaseException:
+            if parallel is not None:       # Ctrl-C while printing, a closed pipe: stop all
+                parallel.close(interrupted=True)
+            raise
+        if parallel is not None:
+            parallel.close(interrupted=total.interrupted)
         if len(paths) > 1 and total.checks and not total.interrupted:
             self._print()
             self._print(f"all {total.files} files: {total.passed} passed, "
                         f"{total.failed + total.undecided} failed")
         return total
+
+    def _replay_next(self, finished) -> Tally:
+        """The next file's recorded output, printed; Ctrl-C while waiting stops the run."""
+        from gacalc.batch import replay
+
+        self.out.flush()            # the heading shows while the file is still running
+        try:
+            chunks, tally = next(finished)
+        except KeyboardInterrupt:
+            self._print_error("interrupted")
+            return Tally(interrupted=True)
+        replay(chunks, self.out, self.err)
+        return tally

@@ -7,16 +7,21 @@ between runs; medians are reported.  Lines printed (the last one is the summary)
 
     ratio products k=K: X        chained products of k general symbolic multivectors
     ratio rotor: X               R x R~ simplified under the unit condition
-    ratio script: X              200 identity checks through the script runner
-    startup: X × import sympy    whole-process time of `gacalc -e '1'`
+    ratio script: X              200 identity checks through the script runner (target 20×)
+    startup: X × import sympy    whole-process time of `gacalc -e 'e1 e2'` (target 0.8×)
     latency median: X ms (...)   typical REPL statements through the Session API
     memory: X × import sympy     peak RSS of running every demo script
     rotor kernel ops (...)       operation counts of the emitted R x R~ kernel (export)
     recognition: ...             `formula EXPR` against plain `EXPR` (ratio) for the handbook
                                  identities, and the slowest case in ms (target: 200 ms)
+    show: ...                    wall time of one `show` of a general product, (a+b)^6, a
+                                 symbolic rotor and a cube (targets 1 s for the product,
+                                 2 s for the others)
+    jobs: X × faster             `gacalc -j 2` on eight script files against one after the
+                                 other (wall time of the whole command; 2 cores: at most 2×)
     min ratio: X                 the smallest product ratio for k = 3..5
 
-Usage: python scripts/bench.py [--quick]
+Usage: python scripts/bench.py [--quick] [--only NAME[,NAME]]   (names: see --help)
 """
 
 from __future__ import annotations
@@ -226,11 +231,60 @@ def wall(cmd, repeats):
     return statistics.median(times)
 
 
+def wall_side_by_side(a, b, repeats):
+    """Median wall seconds of two commands, run alternately."""
+    ta, tb = [], []
+    for _ in range(repeats):
+        ta.append(wall(a, 1))
+        tb.append(wall(b, 1))
+    return statistics.median(ta), statistics.median(tb)
+
+
 def case_startup(repeats):
     py = sys.executable
-    ours = wall([py, "-m", "gacalc", "-e", "1"], repeats)
-    base = wall([py, "-c", "import sympy"], repeats)
-    return ours, base
+    return wall_side_by_side([py, "-m", "gacalc", "-e", "e1 e2"], [py, "-c", "import sympy"],
+                             repeats)
+
+
+# `show` of values the language builds in one statement: (label, setup, value, target s)
+SHOW_CASES = (
+    ("A B", "multivector A, B", "A B", 1.0),
+    ("(a+b)^6", "vector a, b", "(a+b)^6", 2.0),
+    ("rotor R", "rotor R", "R", 2.0),
+    ("R^3", "multivector R", "R^3", 2.0),
+)
+
+
+def case_show(repeats):
+    """{label: (median seconds of `show VALUE`, the plain `VALUE`, target seconds)}: each in
+    a session where the setup has run; the plain value is the baseline side by side."""
+    out = {}
+    for label, setup, value, target in SHOW_CASES:
+        shows, plains = [], []
+        for _ in range(repeats):
+            s = new_session()
+            run_ok(s, setup)
+            shows.append(timed(lambda: run_ok(s, "show " + value)))
+            s = new_session()
+            run_ok(s, setup)
+            plains.append(timed(lambda: run_ok(s, value)))
+        out[label] = (statistics.median(shows), statistics.median(plains), target)
+    return out
+
+
+def case_jobs(repeats, files=8, checks=100):
+    """(sequential s, -j 2 s): eight script files of identity checks, whole commands."""
+    import tempfile
+
+    with tempfile.TemporaryDirectory() as folder:
+        paths = []
+        for k in range(files):
+            path = Path(folder) / f"checks{k}.gac"
+            path.write_text(identity_script(checks, seed=100 + k)[0], encoding="utf-8")
+            paths.append(str(path))
+        py = sys.executable
+        return wall_side_by_side([py, "-m", "gacalc", *paths],
+                                 [py, "-m", "gacalc", "-j", "2", *paths], repeats)
 
 
 LATENCY_CASES = {
@@ -301,10 +355,20 @@ def case_memory():
 # --------------------------------------------------------------------------- main
 
 
+CASES = ("products", "rotor", "script", "startup", "latency", "memory", "kernel",
+         "recognition", "show", "jobs")
+
+
 def main():
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--quick", action="store_true", help="fewer repeats, k up to 4 (under 4 minutes)")
+    ap.add_argument("--only", metavar="NAME[,NAME]", default=None,
+                    help="run only these cases: " + ", ".join(CASES))
     args = ap.parse_args()
+    chosen = CASES if args.only is None else tuple(n.strip() for n in args.only.split(",") if n.strip())
+    unknown = [n for n in chosen if n not in CASES]
+    if unknown:
+        ap.error(f"unknown case {', '.join(unknown)} (the cases are {', '.join(CASES)})")
     repeats = 3 if args.quick else 5
     ks = (2, 3, 4) if args.quick else (2, 3, 4, 5)
 
@@ -314,31 +378,51 @@ def main():
           f"sympy {sp.__version__}; coefficient domain: {type(registry().ctx).__name__} "
           f"(python-flint) rational functions")
     ratios = {}
-    for k in ks:
-        ours, base = case_products(k, 1 if k == 5 else repeats)
-        ratios[k] = base / ours
-        print(f"ratio products k={k}: {ratios[k]:.1f}   (gacalc {ours*1000:.1f} ms, Pauli matrices {base*1000:.1f} ms)")
-    ours, base = case_rotor(repeats)
-    print(f"ratio rotor: {base/ours:.1f}   (gacalc {ours*1000:.1f} ms, Quaternion+trigsimp {base*1000:.1f} ms)")
-    ours, base = case_script(1 if args.quick else 3)
-    print(f"ratio script: {base/ours:.1f}   (gacalc {ours:.2f} s, Pauli matrices {base:.2f} s)")
-    ours, base = case_startup(5 if args.quick else 10)
-    print(f"startup: {ours/base:.2f} × import sympy   (gacalc -e 1 {ours*1000:.0f} ms, import sympy {base*1000:.0f} ms)")
-    lat = case_latency(5 if args.quick else 15)
-    print("latency median: " + ", ".join(f"{label} {ms:.1f} ms" for label, ms in lat.items()))
-    ours, base = case_memory()
-    print(f"memory: {ours/base:.2f} × import sympy   (demos {ours/1024:.0f} MiB, import sympy {base/1024:.0f} MiB)")
-    from gacalc.export import rotor_kernel_counts
+    if "products" in chosen:
+        for k in ks:
+            ours, base = case_products(k, 1 if k == 5 else repeats)
+            ratios[k] = base / ours
+            print(f"ratio products k={k}: {ratios[k]:.1f}   (gacalc {ours*1000:.1f} ms, Pauli matrices {base*1000:.1f} ms)")
+    if "rotor" in chosen:
+        ours, base = case_rotor(repeats)
+        print(f"ratio rotor: {base/ours:.1f}   (gacalc {ours*1000:.1f} ms, Quaternion+trigsimp {base*1000:.1f} ms)")
+    if "script" in chosen:
+        ours, base = case_script(1 if args.quick else 3)
+        print(f"ratio script: {base/ours:.1f}   (gacalc {ours:.2f} s, Pauli matrices {base:.2f} s; target 20)")
+    if "startup" in chosen:
+        ours, base = case_startup(5 if args.quick else 10)
+        print(f"startup: {ours/base:.2f} × import sympy   (gacalc -e 'e1 e2' {ours*1000:.0f} ms, "
+              f"import sympy {base*1000:.0f} ms; target 0.8)")
+    if "latency" in chosen:
+        lat = case_latency(5 if args.quick else 15)
+        print("latency median: " + ", ".join(f"{label} {ms:.1f} ms" for label, ms in lat.items()))
+    if "memory" in chosen:
+        ours, base = case_memory()
+        print(f"memory: {ours/base:.2f} × import sympy   (demos {ours/1024:.0f} MiB, import sympy {base/1024:.0f} MiB)")
+    if "kernel" in chosen:
+        from gacalc.export import rotor_kernel_counts
 
-    counts = rotor_kernel_counts()
-    print("rotor kernel ops (sympy.count_ops): " + "; ".join(
-        f"{form} " + " ".join(f"{op}={n}" for op, n in sorted(ops.items())) for form, ops in counts.items()))
-    recognition = case_recognition(repeats)
-    print("recognition (formula EXPR / EXPR): " + ", ".join(
-        f"{label} {ours / base:.1f} ({ours:.0f} ms)" for label, (ours, base) in recognition.items())
-        + f"; slowest {max(ours for ours, _ in recognition.values()):.0f} ms (target 200 ms)")
+        counts = rotor_kernel_counts()
+        print("rotor kernel ops (sympy.count_ops): " + "; ".join(
+            f"{form} " + " ".join(f"{op}={n}" for op, n in sorted(ops.items())) for form, ops in counts.items()))
+    if "recognition" in chosen:
+        recognition = case_recognition(repeats)
+        print("recognition (formula EXPR / EXPR): " + ", ".join(
+            f"{label} {ours / base:.1f} ({ours:.0f} ms)" for label, (ours, base) in recognition.items())
+            + f"; slowest {max(ours for ours, _ in recognition.values()):.0f} ms (target 200 ms)")
+    if "show" in chosen:
+        shows = case_show(2 if args.quick else 3)
+        print("show (wall time, plain value beside): " + ", ".join(
+            f"{label} {show:.2f} s ({plain:.2f} s; target {target:g} s"
+            f"{', met' if show <= target else ', MISSED'})"
+            for label, (show, plain, target) in shows.items()))
+    if "jobs" in chosen:
+        sequential, parallel = case_jobs(1 if args.quick else 3)
+        print(f"jobs: {sequential/parallel:.2f} × faster   (gacalc -j 2 on 8 files {parallel:.2f} s, "
+              f"one after the other {sequential:.2f} s)")
     small = [ratios[k] for k in ratios if k >= 3]
-    print(f"min ratio: {min(small):.1f}")
+    if small:
+        print(f"min ratio: {min(small):.1f}")
 
 
 if __name__ == "__main__":

@@ -142,7 +142,9 @@ def test_import_is_cheap_and_names_load_on_use():
     code = ("import sys, gacalc; assert 'sympy' not in sys.modules; "
             "assert 'IPython' not in sys.modules and 'matplotlib' not in sys.modules; "
             "import gacalc.language; assert 'sympy' not in sys.modules; "
-            "from gacalc import Session; assert 'sympy' in sys.modules; "
+            "from gacalc import Session; assert 'sympy' not in sys.modules; "
+            "s = Session(); s.evaluate('e1 e2'); assert 'sympy' not in sys.modules; "
+            "s.evaluate('sin(t) e1'); assert 'sympy' in sys.modules; "
             "assert 'matplotlib' not in sys.modules and 'IPython' not in sys.modules")
     subprocess.run([sys.executable, "-c", code], check=True)
 

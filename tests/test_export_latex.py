@@ -198,3 +198,16 @@ def test_latex_of_matches_emit():
     for _, value, settings in TRICKY:
         if not settings:
             assert latex_of(value) == emit('latex', value)
+
+
+def test_a_scalar_sum_keeps_its_signs():
+    # reference: sympy's own LaTeX of the same scalar; pulling the minus of -t + |t| out
+    # front without parentheses printed -t - |t|, another value
+    import sympy
+
+    from gacalc.algebra import Multivector
+    from gacalc.export import latex_of
+
+    t = sympy.Symbol("t", real=True)
+    for scalar in (sympy.Abs(t) - t, -3 - t, t - sympy.Abs(t)):
+        assert latex_of(Multivector({0: scalar})) == sympy.latex(scalar)

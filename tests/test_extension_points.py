@@ -200,4 +200,4 @@ def test_a_toy_export_target_is_one_registration(registered, tmp_path):
     assert "emit latex|python|numpy|c|toy EXPR" in ok(session, "help")[-1].help
     error = session.run("emit nothing e1")[-1]
     assert error.message == ("emit needs a target: emit latex EXPR, emit python EXPR, "
-                             "emit c EXPR or emit toy EXPR")
+                             "emit numpy EXPR, emit c EXPR or emit toy EXPR")

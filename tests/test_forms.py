@@ -20,6 +20,7 @@ from gacalc.algebra import I, Multivector, e1, e2, e3, e12, e23, e31, symbolic, 
 from gacalc.algebra.rotors import rotor
 from gacalc.forms import Report, ReportItem, build_report, render_latex, render_text
 from gacalc.simplify import simplify, simplify_scalar
+from gacalc.values.sequence import ValueList
 
 theta = sympy.Symbol("theta", real=True)
 
@@ -522,11 +523,18 @@ def test_text_fits_80_columns_and_pastes_back(rendered_reports, unicode):
             [r for r in results if not isinstance(r, Result)]
         values = [r for r in results if r.kind == "value"]
         printable = [it for it in report.items if isinstance(it.value, Multivector)
-                     or (isinstance(it.value, sympy.Expr) and not isinstance(it.value, sympy.MatrixBase))]
+                     or (isinstance(it.value, sympy.Expr) and not isinstance(it.value, sympy.MatrixBase))
+                     or isinstance(it.value, ValueList)]      # yaw, pitch, roll of a rotor
         assert len(values) == len(printable)
+        pairs = []
         for result, item in zip(values, printable):
-            expected = item.value if isinstance(item.value, Multivector) else Multivector({0: item.value})
-            got = result.value
+            if isinstance(item.value, ValueList):
+                assert isinstance(result.value, ValueList)
+                pairs.extend(zip(result.value, item.value))
+            else:
+                pairs.append((result.value, item.value))
+        for got, expected in pairs:
+            expected = expected if isinstance(expected, Multivector) else Multivector({0: expected})
             # compare numerically (pasted names are fresh symbols of the new session)
             at = {s: sympy.Rational(3, 7) for s in got.free_symbols}
             at_expected = {s: sympy.Rational(3, 7) for s in expected.free_symbols}

@@ -5,19 +5,22 @@ built-in with right and wrong arities, declarations, checks, Unicode, control ch
 unterminated brackets and strings) and token / character soup all go through
 ``Session.run``; each result and error is also rendered, since printing is part of what
 reaches the user.  A GacalcInternalError (our bug), any Python exception escaping the
-session, RecursionError or MemoryError fails the test.
+session, RecursionError or MemoryError fails the test.  One property also times each
+statement under a 2 s statement budget: none may take longer than the budget plus a wide
+margin (the budget is honoured, by a result, an error or the budget's own message).
 
 The default run is about 2,500 examples, reproducible (derandomize=True) so CI sees the
 same inputs every time.  For a longer local hunt set GACALC_FUZZ_EXAMPLES (examples per
-test; there are five tests), e.g. ``GACALC_FUZZ_EXAMPLES=20000 pytest tests/test_fuzz.py``.
+test; there are six tests), e.g. ``GACALC_FUZZ_EXAMPLES=20000 pytest tests/test_fuzz.py``.
 """
 
 from __future__ import annotations
 
 import os
+import time
 
 import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
 
 from gacalc.language import Session
@@ -250,3 +253,41 @@ def test_character_soup(text, workdir):
 @given(text=st.one_of(deep_nesting(), long_sums(), huge_computations()))
 def test_limits_give_errors_not_crashes(text, workdir):
     run_and_render(text, workdir)
+
+
+# The statement budget is honoured ----------------------------------------------------------
+FUZZ_STATEMENT_BUDGET = 2.0   # seconds per statement in these runs
+# Wide on purpose: the check is that the budget ends a statement at all (a statement that
+# ignored it would run to the 30 s default or hang), not how precisely; a loaded CI
+# machine must not fail it.
+BUDGET_MARGIN = 5.0
+
+
+def _longest_statement(text: str, workdir) -> float:
+    """Run text statement by statement under a small budget; the longest wait (seconds)
+    between one statement's results and the next's (each wait covers one statement)."""
+    session = Session(budget=0.5, statement_budget=FUZZ_STATEMENT_BUDGET,
+                      base_dir=str(workdir))
+    longest = 0.0
+    start = time.monotonic()
+    for result in session.iter_run(text):
+        now = time.monotonic()
+        longest = max(longest, now - start)
+        start = now
+        if isinstance(result, GacalcError):
+            assert not isinstance(result, GacalcInternalError), (text, result.caret_text())
+        else:
+            result.text
+    return longest
+
+
+@fuzz_settings(120)
+@given(text=st.one_of(statements(), huge_computations()))
+# the slow reports of issue 15: each returns a report, or the budget's own message
+@example(text="multivector A, B; show A B")
+@example(text="vector a, b; show (a+b)^6")
+@example(text="rotor R; show R")
+@example(text="multivector R; show R^3")
+def test_no_statement_outlasts_its_budget(text, workdir):
+    seconds = _longest_statement(text, workdir)
+    assert seconds <= FUZZ_STATEMENT_BUDGET + BUDGET_MARGIN, (text, seconds)

@@ -211,3 +211,30 @@ def test_no_user_text_reaches_eval_or_sympify(monkeypatch):
     assert isinstance(results[-1], GacalcError)     # __import__ is not a name
     results = session.run("x = a a + cos(t) + sqrt(2) e12; check x == x")
     assert isinstance(results[-1], CheckResult) and results[-1].passed
+
+
+def test_rebinding_a_declared_name_says_so_and_keeps_earlier_values():
+    s = Session()
+    results = ok(s, "scalar theta\nx = cos(theta)\ntheta = 2")
+    notes = [r.text for r in results if r.kind == "note"]
+    assert notes == ["note: theta was a declared scalar symbol and is now a value; values "
+                     "computed before keep the symbol theta"]
+    import sympy
+
+    theta = sympy.Symbol("theta", real=True)
+    assert s.get("x")[0] == sympy.cos(theta)        # x still holds the symbol
+    assert ok(s, "cos(theta)")[-1].value[0] == sympy.cos(2)
+    # a second assignment changes a plain value: nothing to say
+    assert not [r for r in ok(s, "theta = 3") if r.kind == "note"]
+    results = ok(s, "vector a\na = e1\nf(u) = u\nf = 2")
+    notes = [r.text for r in results if r.kind == "note"]
+    assert "note: a was a declared vector (a1, a2, a3) and is now a value; values computed " \
+           "before keep its components" in notes
+    assert "note: f was the function f(u) and is now a value" in notes
+
+
+def test_assume_of_conditions_that_always_hold_says_only_that():
+    s = Session()
+    results = ok(s, "theta = 2\nassume theta > 0")
+    assert [r.text for r in results if r.kind == "note"] == [
+        "note: the condition theta > 0 always holds"]

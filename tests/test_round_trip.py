@@ -65,8 +65,6 @@ def _same_value(session, first_text, printed):
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
 @given(value_texts(), st.booleans())
 def test_printed_values_read_back_as_themselves(text, unicode):
-    if "pauli" in text:
-        unicode = False   # known limit: Unicode text of complex entries (cos(pi/5)) fails
     session = Session(unicode=unicode)
     ok(session, "scalar t, a, b")
     results = ok(session, f"x = {text}")
@@ -75,6 +73,17 @@ def test_printed_values_read_back_as_themselves(text, unicode):
     # and it reads back as a value of the same kind
     again = ok(session, f"y = {printed}")[-1].value
     assert kind_of(again) is kind_of(session.get("x"))
+
+
+def test_complex_entries_with_negative_sums_read_back_in_unicode():
+    # cos(pi/5) = (1 + sqrt(5))/4 (handbook value, golden ratio / 2): an imaginary part
+    # that is a negative sum keeps its parentheses when the minus is the Unicode one
+    for unicode in (False, True):
+        session = Session(unicode=unicode)
+        value = ok(session, "x = pauli(cos(pi/5) e12 - cos(pi/5) e1)")[-1].value
+        printed = session.format(value)
+        assert "(" + ("\u2212" if unicode else "-") + "sqrt(5)/4" in printed, printed
+        _same_value(session, "x", printed)
 
 
 def test_matrix_literals_print_as_they_are_written():

@@ -208,9 +208,9 @@ def test_internal_error_is_logged_in_the_state_directory(tmp_path, monkeypatch):
     assert log.is_file()
     assert "RuntimeError: simulated bug" in log.read_text()
     assert tally.exit_status() == EXIT_ERROR
-    # one bug, one entry: the session writes it and the runner names the same file
+    # one bug, one entry: the session writes it and the runner names the same file, once
     assert log.read_text().count("--- ") == 1
-    assert str(log) in err
+    assert err.count(str(log)) == 1
 
 
 def test_log_internal_error_without_a_writable_directory(monkeypatch, tmp_path):
@@ -220,3 +220,23 @@ def test_log_internal_error_without_a_writable_directory(monkeypatch, tmp_path):
     from gacalc.language.errors import GacalcInternalError
 
     assert log_internal_error(GacalcInternalError("x", None, "tb")) is None
+
+
+def test_a_printer_bug_is_logged_once_however_often_its_text_is_read(tmp_path, monkeypatch):
+    monkeypatch.setenv("XDG_STATE_HOME", str(tmp_path))
+    import gacalc.printing.text as text_printer
+
+    def broken(*args, **kwargs):
+        raise RuntimeError("simulated printer bug")
+
+    monkeypatch.setattr(text_printer, "value_text", broken)
+    from gacalc.language import Session
+
+    result = Session().run("e1 + e2")[-1]
+    first, second = result.text, str(result)
+    assert first == second and "internal error while printing" in first
+    log = tmp_path / "gacalc" / "internal-errors.log"
+    assert log.read_text().count("--- ") == 1
+    tally, out, err = run("e1 + e2\ncheck e1 == e1\n")
+    assert "internal error while printing" in out and tally.passed == 1
+    assert log.read_text().count("--- ") == 2          # one more bug, one more entry

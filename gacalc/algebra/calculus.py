@@ -18,7 +18,7 @@ from __future__ import annotations
 
 import math
 
-import sympy
+from gacalc.lazy import sympy
 
 from .coefficients import Coef, from_expr
 from .context import current, registry

@@ -21,16 +21,18 @@ in an "expr" mode, the honest fallback for what the polynomial domain cannot hol
 
 from __future__ import annotations
 
+import functools
 from fractions import Fraction
 
 import re
 
 import flint
-import sympy
+
+from gacalc.lazy import loaded, sympy
 
 from .context import current, registry
 from .generators import GeneratorInfo, GeneratorRegistry, owner_of
-from .spelling import input_text, rational_factors_behind
+from .rational_text import rational_factors_behind
 
 
 class DomainError(ValueError):
@@ -111,7 +113,7 @@ class Coef:
     @staticmethod
     def constant(value) -> "Coef":
         """A rational constant (int, Fraction, sympy Rational or flint fmpq)."""
-        if isinstance(value, sympy.Rational):
+        if loaded("sympy") and isinstance(value, sympy.Rational):
             value = flint.fmpq(int(value.p), int(value.q))
         elif isinstance(value, Fraction):
             value = flint.fmpq(value.numerator, value.denominator)
@@ -315,13 +317,15 @@ def poly_to_expr(p, reg: GeneratorRegistry | None = None):
 # sympy Expr -> Coef
 
 
-# the other trigonometric functions as quotients of cos and sin: (numerator, denominator)
-_TRIG_REWRITES = {
-    sympy.tan: lambda a: (sympy.sin(a), sympy.cos(a)),
-    sympy.cot: lambda a: (sympy.cos(a), sympy.sin(a)),
-    sympy.sec: lambda a: (sympy.Integer(1), sympy.cos(a)),
-    sympy.csc: lambda a: (sympy.Integer(1), sympy.sin(a)),
-}
+@functools.cache
+def _trig_rewrites():
+    """The other trigonometric functions as quotients of cos and sin: (numerator, denominator)."""
+    return {
+        sympy.tan: lambda a: (sympy.sin(a), sympy.cos(a)),
+        sympy.cot: lambda a: (sympy.cos(a), sympy.sin(a)),
+        sympy.sec: lambda a: (sympy.Integer(1), sympy.cos(a)),
+        sympy.csc: lambda a: (sympy.Integer(1), sympy.sin(a)),
+    }
 
 
 def from_expr(expr) -> Coef:
@@ -356,7 +360,7 @@ def from_expr(expr) -> Coef:
         return Coef(generator(expr, "symbol"))
     if isinstance(expr, (sympy.cos, sympy.sin)):
         return trig(type(expr).__name__, expr.args[0])
-    for fn, rewrite in _TRIG_REWRITES.items():
+    for fn, rewrite in _trig_rewrites().items():
         if isinstance(expr, fn):
             num, den = rewrite(expr.args[0])
             return from_expr(num) / from_expr(den)
@@ -455,6 +459,8 @@ def trig(kind: str, arg) -> Coef:
 
 def ascii_text(expr) -> str:
     """Input text of a sympy expression in sympy's argument order (generator names)."""
+    from .spelling import input_text
+
     return input_text(expr, order="none")
 
 

@@ -6,7 +6,7 @@ the basis names.  numpy is imported only when an array is asked for.
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from .basis import BASIS_GRADES, BASIS_NAMES
 

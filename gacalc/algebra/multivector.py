@@ -5,8 +5,7 @@ from __future__ import annotations
 from fractions import Fraction
 from numbers import Integral
 
-import sympy
-from sympy.polys.polyerrors import BasePolynomialError
+from gacalc.lazy import loaded, sympy
 
 from .basis import BASIS_GRADES, BASIS_INDICES, BASIS_NAMES, PRODUCT_TABLE, PSEUDOSCALAR, basis_of_word
 from .coefficients import Coef, DomainError, from_expr, generators_of, poly_to_expr
@@ -45,7 +44,10 @@ _RIGHT = _product_table(lambda r, s, g: r >= s and g == r - s)
 _HESTENES = _product_table(lambda r, s, g: r > 0 and s > 0 and g == abs(r - s))
 _SCALAR = _product_table(lambda r, s, g: g == 0)
 
-_SCALAR_TYPES = (Integral, Fraction, sympy.Basic)
+
+def _is_scalar(x) -> bool:
+    """A plain number or a sympy object (none exists before sympy is imported)."""
+    return isinstance(x, (Integral, Fraction)) or (loaded("sympy") and isinstance(x, sympy.Basic))
 
 
 def _to_coef(x) -> Coef:
@@ -104,7 +106,7 @@ class Multivector:
     # -- access ----------------------------------------------------------------
 
     def __getitem__(self, key):
-        k = int(key) if isinstance(key, (Integral, sympy.Integer)) else _index_of(key)
+        k = int(key) if isinstance(key, Integral) else _index_of(key)   # sympy's Integer too
         c = self._c[k]
         return sympy.Integer(0) if c is None else c.to_expr()
 
@@ -162,6 +164,19 @@ class Multivector:
 
     def scalar_part(self):
         return self[0]
+
+    def rational_scalar(self) -> Fraction | None:
+        """The value as a Fraction when it is a rational scalar, else None (read from the
+        polynomial: needs no sympy)."""
+        if not self.is_scalar():
+            return None
+        c = self._c[0]
+        if c is None:
+            return Fraction(0)
+        if not c.is_rational():
+            return None
+        q = c.constant_value()
+        return Fraction(int(q.p), int(q.q))
 
     def grades(self) -> frozenset:
         return frozenset(BASIS_GRADES[k] for k, c in enumerate(self._c) if c is not None)
@@ -260,11 +275,11 @@ class Multivector:
 
     def comm(self, other):
         other = _coerce(other)
-        return (self * other - other * self).scale(sympy.Rational(1, 2))
+        return (self * other - other * self).scale(Fraction(1, 2))
 
     def anticomm(self, other):
         other = _coerce(other)
-        return (self * other + other * self).scale(sympy.Rational(1, 2))
+        return (self * other + other * self).scale(Fraction(1, 2))
 
     def __truediv__(self, other):
         other = _coerce(other)
@@ -284,7 +299,7 @@ class Multivector:
         return other / self
 
     def __pow__(self, n):
-        if isinstance(n, sympy.Integer):
+        if loaded("sympy") and isinstance(n, sympy.Integer):
             n = int(n)
         if not isinstance(n, Integral):
             raise AlgebraError("only integer powers of a multivector; use the rotor functions for others")
@@ -532,6 +547,8 @@ def _condition_text_expr(d: Coef):
         expr = d.expr
         if expr.is_number:
             return expr
+        from sympy.polys.polyerrors import BasePolynomialError
+
         try:
             return sympy.sqf_part(sympy.numer(sympy.together(expr)))
         except (BasePolynomialError, ValueError):
@@ -558,8 +575,8 @@ def _index_of(key) -> int:
 def _coerce(x):
     if isinstance(x, Multivector):
         return x
-    if isinstance(x, _SCALAR_TYPES):
-        if isinstance(x, sympy.Basic) and not isinstance(x, sympy.Expr):
+    if _is_scalar(x):
+        if loaded("sympy") and isinstance(x, sympy.Basic) and not isinstance(x, sympy.Expr):
             return NotImplemented
         return Multivector({0: x})
     return NotImplemented
@@ -569,7 +586,8 @@ def as_multivector(x, what: str) -> Multivector:
     """x as a Multivector (a plain scalar becomes one); AlgebraError naming ``what`` otherwise."""
     if isinstance(x, Multivector):
         return x
-    if isinstance(x, (Integral, Fraction, sympy.Expr)) and not isinstance(x, bool):
+    if (isinstance(x, (Integral, Fraction)) or (loaded("sympy") and isinstance(x, sympy.Expr))) \
+            and not isinstance(x, bool):
         return Multivector.scalar(x)
     raise AlgebraError(f"{what} needs a multivector; got {type(x).__name__}")
 

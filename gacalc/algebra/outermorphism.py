@@ -14,7 +14,7 @@ Algebra for Physicists", sec. 4.4).
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from .context import current
 from .multivector import AlgebraError, Multivector, NotInvertibleError, _condition_text_expr

@@ -27,7 +27,7 @@ from __future__ import annotations
 
 from fractions import Fraction
 
-import sympy
+from gacalc.lazy import sympy
 
 from .context import current
 from .multivector import as_multivector as _as_multivector, ONE, AlgebraError, I, Multivector, e12, simplified_scalar
@@ -133,17 +133,19 @@ def _unit_verdict(mv: Multivector, conditions=()):
     return _vanishes(mv.norm2() - 1, conditions)
 
 
-def _require_unit(mv: Multivector, what: str, noun: str, conditions=()):
+def _require_unit(mv: Multivector, what: str, noun: str, conditions=(), hint: str = ""):
     if _unit_verdict(mv, conditions) is True:
         return
     n2 = _simplified(mv.norm2())
     if not n2.free_symbols:
         if n2 == 0:
             raise AlgebraError(f"{what} needs {noun}; got 0")
-        raise AlgebraError(f"{what} needs {noun}; this one has norm {_text(_simplified(sympy.sqrt(n2)))}")
+        raise AlgebraError(f"{what} needs {noun}; this one has norm "
+                           f"{_text(_simplified(sympy.sqrt(n2)))}"
+                           + (" (divide it by its norm)" if hint else ""))
     if sympy.count_ops(n2) <= 200:
         n2 = sympy.factor(n2)  # (R0^2 + ...)*(Q0^2 + ...) reads better than its expansion
-    raise AlgebraError(f"{what} needs {noun}; cannot tell that {_text(n2)} = 1")
+    raise AlgebraError(f"{what} needs {noun}; cannot tell that {_text(n2)} = 1{hint}")
 
 
 def _require_rotor(R, what: str, conditions=()) -> Multivector:
@@ -182,7 +184,10 @@ def rotor(B_or_n, theta, conditions=()) -> Multivector:
     else:
         got = "0" if not grades else _grade_words(grades)
         raise AlgebraError(f"rotor needs a unit bivector or a unit vector; got {got}")
-    _require_unit(X, "rotor", "a unit bivector or a unit vector", conditions)
+    # the angle is measured in the unit plane: a longer n would scale it, so no silent
+    # normalising here (rotor(a, b) takes directions, so it normalises and says so)
+    _require_unit(X, "rotor", "a unit bivector or a unit vector", conditions,
+                  " (declare it unit, as in vector n unit, or divide it by its norm)")
     half = theta / 2
     return Multivector({0: sympy.cos(half)}) - B.scale(sympy.sin(half))
 
@@ -209,13 +214,40 @@ def rotor_between(a, b, conditions=()):
     symbolic vectors the closed form holds wherever they are not opposite.
     """
     what = "rotor_between"
-    a = _unit_direction(_as_multivector(a, what), what, conditions)
-    b = _unit_direction(_as_multivector(b, what), what, conditions)
+    a, b = _as_multivector(a, what), _as_multivector(b, what)
+    if lengths_unknown(a, b, conditions):
+        return _rotor_between_lengths(a, b, what, conditions)
+    a = _unit_direction(a, what, conditions)
+    b = _unit_direction(b, what, conditions)
     s = _simplified(1 + a.scalar_product(b)[0])
     if _vanishes(s) is True:
         return _half_turn_about(a, what), True
     k = _simplified(sympy.sqrt(2 * s) / (2 * s))
     return _tidy((ONE + b * a).scale(k)), False
+
+
+def lengths_unknown(a, b, conditions) -> bool:
+    """Symbolic vectors not known to be unit: their rotor keeps the lengths in one place."""
+    symbolic = any(e.free_symbols for v in (a, b) for _, e in v.items())
+    return symbolic and a.grades() == b.grades() == {1} and not all(
+        _unit_verdict(v, conditions) is True for v in (a, b))
+
+
+def _rotor_between_lengths(a, b, what, conditions):
+    """R = (|a| |b| + b a)/sqrt(2 |a| |b| (|a| |b| + a.b)): the unit-vector formula
+    (1 + b^ a^)/sqrt(2 (1 + a^.b^)) multiplied through by |a| |b|, so the lengths appear
+    once in the numerator's scalar and once in the shared denominator (the norm of the
+    numerator).  Valid where a, b != 0 and they are not opposite (|a| |b| + a.b != 0)."""
+    for v in (a, b):
+        if _vanishes(v.norm2(), conditions) is True:
+            raise AlgebraError(f"{what} needs two nonzero vectors; got 0")
+    # |a| |b| from the factored product: b = 2 a gives 2 |a|^2, not sqrt(4 |a|^2) |a|
+    lengths = _simplified(sympy.sqrt(sympy.factor(a.norm2() * b.norm2())))
+    s = _simplified(lengths + a.scalar_product(b)[0])
+    if _vanishes(s, conditions) is True:
+        return _half_turn_about(_normalized(a), what), True
+    numerator = Multivector({0: lengths}) + b * a
+    return _tidy(numerator.scale(1 / sympy.sqrt(2 * lengths * s))), False
 
 
 def _half_turn_about(a: Multivector, what: str) -> Multivector:

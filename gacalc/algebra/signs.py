@@ -10,8 +10,9 @@ number that still straddles zero (zero itself, or too close to tell) stays undec
 
 from __future__ import annotations
 
-import sympy
-from mpmath import iv
+from gacalc.lazy import LazyModule, sympy
+
+iv = LazyModule("mpmath", "iv")   # interval arithmetic, imported on first use
 
 START_BITS = 80
 MAX_BITS = 2560

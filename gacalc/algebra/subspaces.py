@@ -24,7 +24,7 @@ inverse states its condition).
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from .context import current
 from .multivector import AlgebraError, Multivector, _condition_text_expr

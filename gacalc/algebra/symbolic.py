@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from .multivector import AlgebraError, Multivector
 

@@ -70,10 +70,14 @@ def blade_latex(index, wedge=False):
 
 def _signed_term(printer, coefficient, index, wedge):
     """(sign, text) of one term coefficient·blade with the sign pulled out front."""
+    blade = blade_latex(index, wedge)
+    if not blade and coefficient.is_Add:
+        # a sum with no blade after it keeps its own signs: pulling one minus out front
+        # would need parentheses (-(t - |t|)), and without them it changes the value
+        return '+', printer.doprint(coefficient)
     negative = coefficient.could_extract_minus_sign()
     if negative:
         coefficient = -coefficient
-    blade = blade_latex(index, wedge)
     if not blade:
         text = printer.doprint(coefficient)
     elif coefficient == 1:

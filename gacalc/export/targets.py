@@ -55,5 +55,6 @@ def described() -> list[ExportTarget]:
 register(ExportTarget("latex", ".tex", ".latex:emit", "emit latex EXPR          LaTeX"))
 register(ExportTarget("python", ".py", ".python:emit",
                       "emit python EXPR as f    a Python function f"))
-register(ExportTarget("numpy", ".py", ".python:emit_numpy"))
+register(ExportTarget("numpy", ".py", ".python:emit_numpy",
+                      "emit numpy EXPR as f     the Python function, element-wise on numpy arrays"))
 register(ExportTarget("c", ".c", ".c:emit", 'emit c EXPR to "out.c"   C code written to a file'))

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import dataclasses
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.multivector import Multivector
 

@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import textwrap
 
-import sympy
+from gacalc.lazy import sympy
 
 from .report import Report, ReportItem
 
@@ -82,7 +82,7 @@ def _value_lines(item: ReportItem, unicode: bool) -> list:
         return [item.formula.text(unicode)]
     if isinstance(value, str) or _omitted(item):
         return []
-    if isinstance(value, tuple):
+    if isinstance(value, tuple) and kind_of(value) is None:     # a quaternion (w, x, y, z)
         line = "# " + quaternion_text(sympy.Quaternion(*value), unicode)
         if len(line) <= WIDTH:
             return [line]
@@ -198,9 +198,9 @@ def _latex_value(value) -> str:
 
     if isinstance(value, str):
         return r"\text{%s}" % _latex_text(value)
-    if isinstance(value, tuple):
-        return r"\left(%s\right)" % ", ".join(latex_of(c) for c in value)
     kind = kind_of(value)
+    if isinstance(value, tuple) and kind is None:                 # a quaternion (w, x, y, z)
+        return r"\left(%s\right)" % ", ".join(latex_of(c) for c in value)
     if kind is not None:
         return kind.latex(value)
     return latex_of(value)

@@ -17,7 +17,7 @@ import dataclasses
 from dataclasses import dataclass, field
 from fractions import Fraction
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra import AlgebraError, Multivector, NotInvertibleError
 
@@ -38,6 +38,9 @@ REPORT_BUDGET = 30.0    # seconds for a whole report made without a session's de
 # has no per-section limit, so its result never depends on the machine's load.
 SECTION_SECONDS = 1.0
 INVERSE_SECONDS = 0.5
+# Yaw, pitch, roll of a rotor: its own share of SECTION_SECONDS after the forms (an exact
+# radical rotor takes a few tenths of a second), so it never crowds the forms out.
+ATTITUDE_SHARE = 0.6
 # An item with more terms than this (more than a screen of text) is named, not printed.
 ITEM_TERMS = 160
 
@@ -299,6 +302,7 @@ class _Builder:
         self.s = s
         self.items: list = []
         self._norm2 = None
+        self._attitude_pending = None    # (rotor, label prefix) once the forms know one
 
     def add(self, section, label, value, note="", condition=None):
         self.items.append(ReportItem(label, value, note, section, condition))
@@ -367,6 +371,11 @@ class _Builder:
         kind = self._section(KIND, lambda: self._classify(parts))
         if kind is None:
             kind = "undecided"
+        if self._attitude_pending is not None:
+            r, prefix = self._attitude_pending
+            self._section(FORMS, lambda: self._attitude_item(r, prefix),
+                          label=prefix + "yaw, pitch, roll", share=ATTITUDE_SHARE,
+                          hint='euler_angles({}, "zyx") computes them')
         self._shorten()
         order = (VALUE, INVOLUTIONS, MEASURES, KIND, FORMS, AGAINST)
         self.items.sort(key=lambda it: order.index(it.section))
@@ -611,6 +620,7 @@ class _Builder:
         q = quaternion(r)
         self.add(FORMS, prefix + "quaternion", tuple(s.scalar(c) for c in (q.a, q.b, q.c, q.d)),
                  QUATERNION_NOTE)
+        self._attitude_pending = (r, prefix)     # computed under its own budget (build)
         self.add(FORMS, prefix + "Pauli matrix", s.matrix(pauli(r), complex_entries=True),
                  "e1, e2, e3 -> sigma_x, sigma_y, sigma_z; e123 -> i")
         if plane is not None:
@@ -621,6 +631,24 @@ class _Builder:
                      "R = -1 = exp(-P pi) for any unit bivector P")
         self.add(FORMS, prefix + "same rotation", s.mv(-r),
                  "-R: the same rotation, by 2*pi - angle about the opposite axis")
+
+    def _attitude_item(self, r: Multivector, prefix: str):
+        """Yaw, pitch, roll: the intrinsic zyx angles a gimbal reads (help attitude); the
+        exact-angle search of euler_angles runs for the (quick) middle angle only, to stay
+        within the section budget."""
+        from gacalc.algebra.attitude import axis_sequence, euler_angles
+        from gacalc.printing.text import scalar_text
+        from gacalc.values.sequence import value_list
+
+        s = self.s
+        result = euler_angles(r, axis_sequence("zyx"), s.conditions, exact="middle")
+        note = "intrinsic zyx, R = rotor(e3, yaw) rotor(e2, pitch) rotor(e1, roll)"
+        if result.locked is not None:
+            note += "; gimbal lock: roll set to 0"
+        elif result.condition is not None:
+            note += f"; gimbal lock where {scalar_text(result.condition)} = +-1"
+        angles = value_list(Multivector.scalar(s.scalar(a)) for a in result.angles)
+        self.add(FORMS, prefix + "yaw, pitch, roll", angles, note)
 
     def _rotary_reflection(self, images):
         """V = v + b I: with V/|V| = cos(t/2) n - sin(t/2) I it is the rotation by t about n

@@ -22,7 +22,7 @@ import re
 from collections import Counter
 from dataclasses import dataclass
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef
 from gacalc.algebra.multivector import ONE, I, Multivector, cross

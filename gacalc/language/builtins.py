@@ -31,6 +31,7 @@ class Builtin:
     category: str
     chain: tuple[int, ...] = LINEAR
     estimate: Callable | None = None    # (args, span): its own size check instead of chain
+    words: bool = False                 # takes words in quotes ("zyx") as arguments
 
     def arity_text(self) -> str:
         if self.min_args == self.max_args:
@@ -44,9 +45,11 @@ BUILTINS: dict[str, Builtin] = {}
 
 def builtin(signature: str, help: str, example: str, category: str,
             min_args: int | None = None, max_args: int | None = None, *,
-            chain: tuple[int, ...] = LINEAR, estimate: Callable | None = None):
+            chain: tuple[int, ...] = LINEAR, estimate: Callable | None = None,
+            words: bool = False):
     """Register an implementation; arity defaults to the count in the signature.
-    ``chain`` (or ``estimate``) is what the size limits check before a call."""
+    ``chain`` (or ``estimate``) is what the size limits check before a call; ``words``
+    lets arguments be words in quotes (they arrive as Python strings)."""
     name, _, rest = signature.partition("(")
     params = [p.strip() for p in rest.rstrip(")").split(",") if p.strip()]
     required = [p for p in params if not p.startswith("[")]
@@ -57,7 +60,7 @@ def builtin(signature: str, help: str, example: str, category: str,
             min_args=len(required) if min_args is None else min_args,
             max_args=len(params) if max_args is None else max_args,
             signature=signature, help=help, example=example, impl=function,
-            category=category, chain=chain, estimate=estimate)
+            category=category, chain=chain, estimate=estimate, words=words)
         return function
 
     return register
@@ -246,7 +249,8 @@ def _apply(ctx, v, x):
 
 
 @builtin("rotor(B, theta)", "rotor exp(-B theta/2) for a unit bivector B or a unit axis "
-         "vector n (plane n I); rotor(a, b) turns unit vector a into b",
+         "vector n (plane n I); rotor(a, b) turns the direction of a into that of b (any "
+         "nonzero lengths)",
          "rotor(e12, pi/2)", "rotors",
          chain=(0, 0, 0, 1))
 def _rotor(ctx, first, second):
@@ -256,6 +260,15 @@ def _rotor(ctx, first, second):
         return _rotors().rotor(first, second.scalar_part(), ctx.conditions())
     if first.grades() == {1} and second.grades() == {1}:
         rotor, arbitrary = _rotors().rotor_between(first, second, ctx.conditions())
+        if _rotors().lengths_unknown(first, second, ctx.conditions()):
+            from .syntax import Name, unparse
+
+            a, b = (unparse(node) for node in ctx.node.args[:2])
+            pa, pb = (text if isinstance(node, Name) else f"({text})"
+                      for text, node in zip((a, b), ctx.node.args))
+            ctx.note(f"rotor({a}, {b}) turns the direction of {a} into that of {b}: valid "
+                     f"where both are nonzero and not opposite (|{a}| |{b}| + {pa} . {pb} "
+                     "!= 0)")
         if arbitrary:
             ctx.note("the vectors are opposite: any plane containing them works; "
                      "one was chosen")
@@ -433,22 +446,85 @@ def _from_quaternion(ctx, *args):
 
 
 # Symbols and numbers -------------------------------------------------------------
-@builtin("subs(A, t, value)", "A with the scalar symbol t replaced by a scalar value",
-         "subs(cos(t) e1, t, pi)", "symbols",
-         estimate=lambda args, span: _limits().check_substitution(args, span))
-def _subs(ctx, a, t, value):
-    expr = ctx.scalar(1)
+@builtin("subs(A, t, value, ...)", "A (any value) with scalar symbols (or declared functions such as "
+         "u(t)) replaced by values, all at once: subs(A, t, v, s, w) or "
+         "subs(A, (t, v), (s, w))", "subs(cos(t) e1 + s e2, t, pi, s, 2)", "symbols",
+         min_args=2, max_args=99,
+         estimate=lambda args, span: _limits().check_substitutions(args, span))
+def _subs(ctx, a, *rest):
+    from gacalc.values import kind_of
+
+    pairs = _substitution_pairs(ctx, rest)
+    kind = kind_of(a)
+    mapped = None if kind is None else kind.map_scalars(a, _substitution(ctx, pairs))
+    if mapped is None:
+        ctx.multivector(0)   # says what subs accepts
+    return mapped
+
+
+def _substitution(ctx, pairs):
+    """The substitution of every pair in one sympy scalar, as a function."""
     sympy = _sympy()
     from sympy.core.function import AppliedUndef
 
-    if isinstance(expr, AppliedUndef):
-        # a declared function of a scalar (scalar u(t)): its derivatives follow
-        value = ctx.scalar(2)
-        return ctx.multivector(0).map_coefficients(lambda e: e.subs(expr, value).doit())
-    if not isinstance(expr, sympy.Symbol):
-        ctx.fail("the second argument must be a scalar symbol such as t or a1 (or a "
-                 "declared function such as u(t))", 1)
-    return ctx.multivector(0).subs({expr: ctx.scalar(2)})
+    keys = [key for key, _ in pairs]
+    if any(v.has(*keys) for _, v in pairs):
+        # simultaneous, not in sequence: subs(A, a1, a2, a2, a1) swaps, a value never
+        # sees another replacement (sympy's simultaneous substitution)
+        if not all(isinstance(k, sympy.Symbol) for k in keys):
+            ctx.fail("a value mentions a replaced function; substitute it in a call of "
+                     "its own")
+        mapping = dict(pairs)
+        return lambda e: e.subs(mapping, simultaneous=True)
+
+    def in_sequence(e):
+        # no value mentions a replaced symbol: one after the other is the same as at once
+        for key, replacement in pairs:
+            e = e.subs(key, replacement)
+            if isinstance(key, AppliedUndef):
+                e = e.doit()      # a declared function (scalar u(t)): derivatives follow
+        return e
+    return in_sequence
+
+
+def _substitution_pairs(ctx, rest) -> list:
+    """[(symbol or u(t), value)] from t, v, s, w, ... or (t, v), (s, w), ... arguments,
+    each symbol once."""
+    from sympy.core.function import AppliedUndef
+
+    from gacalc.values.sequence import ValueList
+
+    sympy = _sympy()
+    evaluator = ctx.evaluator
+    pairs, index = [], 1
+    while index < len(ctx.args):
+        item = ctx.args[index]
+        if isinstance(item, ValueList):
+            if len(item) != 2:
+                ctx.fail("a substitution in a list is a pair (t, value)", index)
+            span = ctx.span(index)
+            key = evaluator.scalar(item[0], span, "the symbol of a substitution")
+            replacement = evaluator.scalar(item[1], span, "the value of a substitution")
+            position, index = index, index + 1
+        else:
+            if index + 1 >= len(ctx.args):
+                ctx.fail("each symbol needs a value after it: subs(A, t, value, ...)", index)
+            key = ctx.scalar(index)
+            replacement = ctx.scalar(index + 1)
+            position, index = index, index + 2
+        if not isinstance(key, (sympy.Symbol, AppliedUndef)):
+            ctx.fail("a substitution replaces a scalar symbol such as t or a1 (or a "
+                     "declared function such as u(t))", position)
+        if any(key == k for k, _ in pairs):
+            ctx.fail(f"{_spelled(key)} is substituted twice", position)
+        pairs.append((key, replacement))
+    return pairs
+
+
+def _spelled(expr) -> str:
+    from gacalc.algebra.spelling import input_text
+
+    return input_text(expr)
 
 
 @builtin("numeric(A, [digits])", "floating-point approximation of A (15 digits by default)",
@@ -476,5 +552,6 @@ def _ln(ctx, x):
 
 from . import builtins_calculus  # noqa: E402,F401  (diff, nabla, jacobian, ...)
 from . import builtins_subspaces  # noqa: E402,F401  (meet, join, factor, frames, linmap)
+from . import builtins_attitude  # noqa: E402,F401  (Euler angles, rotation vectors)
 
 BUILTIN_NAMES: tuple[str, ...] = tuple(sorted(BUILTINS))

@@ -22,7 +22,7 @@ import math
 import re
 from dataclasses import dataclass, field
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra import AlgebraError, Multivector, NotInvertibleError, blade
 from gacalc.printing.text import scalar_text
@@ -109,6 +109,12 @@ def is_multivector(value) -> bool:
     return isinstance(value, Multivector)
 
 
+def whole_number(value) -> int | None:
+    """The value as an int when it is a rational scalar with denominator 1, else None."""
+    q = value.rational_scalar() if is_multivector(value) else None
+    return int(q) if q is not None and q.denominator == 1 else None
+
+
 class Evaluator:
     """Evaluates expressions against a (scratch) State; collects notes."""
 
@@ -147,7 +153,7 @@ class Evaluator:
 
     # Leaves ---------------------------------------------------------------------
     def _eval_Number(self, node: S.Number, frame):
-        return Multivector.from_rationals((node.value,))
+        return Multivector.from_rationals((node.value,))     # exact, and needs no sympy
 
     def _eval_Name(self, node: S.Name, frame):
         return self.lookup(node.name, node.span, frame)
@@ -351,8 +357,31 @@ class Evaluator:
     def _eval_Power(self, node: S.Power, frame):
         base = self.evaluate(node.base, frame)
         exponent_value = self.evaluate(node.exponent, frame)
+        exact = self._whole_power(base, whole_number(exponent_value), node)
+        if exact is not None:
+            return exact
         exponent = self.scalar(exponent_value, node.exponent.span, "an exponent")
         return self.power(base, exponent, node)
+
+    def _whole_power(self, base, n: int | None, node: S.Power):
+        """base^n for a whole n, computed as the multivector kind would but without sympy
+        (a rational statement starts without importing it); None: take the general path,
+        which also says what is wrong."""
+        if n is None or abs(n) > MAX_EXPONENT or not is_multivector(base):
+            return None
+        if not base.is_scalar():
+            if n < 0:
+                base, n = self.inverse(base, node.span), -n
+            return self.integer_power(base, n, node.span)
+        q = base.rational_scalar()
+        if q is None or (q == 0 and n < 0):
+            return None
+        size = max(abs(q.numerator), q.denominator)
+        if size > 1 and abs(n) * math.log10(size) > MAX_RESULT_DIGITS:
+            return None
+        if abs(n) >= 2:
+            limits.check_power(base, abs(n), node.span)
+        return Multivector.scalar(q ** n)
 
     def power(self, base, exponent, node: S.Power):
         span = node.exponent.span
@@ -420,6 +449,9 @@ class Evaluator:
 
     def index_number(self, value, span: Span, count: int, what: str = "items") -> int:
         """A 1-based index into ``count`` items, as a Python int."""
+        exact = whole_number(value)                # read without sympy when it is one
+        if exact is not None and 1 <= exact <= count:
+            return exact
         number = self.scalar(value, span, "an index")
         if not number.is_Integer:
             raise GacalcTypeError(f"an index is a whole number from 1 to {count}, not "
@@ -495,7 +527,7 @@ class Evaluator:
         if not function.min_args <= count <= function.max_args:
             raise GacalcTypeError(f"{function.name} takes {function.arity_text()}, not "
                                   f"{count}: {function.signature}", node.span)
-        args = [self.evaluate(arg, frame) for arg in node.args]
+        args = [self._builtin_argument(function, arg, frame) for arg in node.args]
         limits.check_call(function, args, node.span)
         context = CallContext(self, function, node, args)
         try:
@@ -510,10 +542,24 @@ class Evaluator:
             if not message.startswith(function.name):
                 message = f"{function.name}: {message}"
             raise GacalcMathError(message, node.span) from None
-        if is_multivector(result) and result.is_scalar():
-            check_finite(result.scalar_part(), node.span)
+        if is_multivector(result) and result.is_scalar() and result.rational_scalar() is None:
+            check_finite(result.scalar_part(), node.span)      # a rational is finite
         limits.check_value(result, node.span, f"the result of {function.name}")
         return result
+
+    def _builtin_argument(self, function, arg: S.Node, frame):
+        """An argument's value; a word in quotes stays a Python str where words are taken."""
+        if isinstance(arg, S.Text) and function.words:
+            return arg.value
+        if isinstance(arg, S.Text):
+            raise GacalcTypeError(f"{function.name} takes no words in quotes here: "
+                                  f"\"{arg.value}\" is not a value", arg.span)
+        return self.evaluate(arg, frame)
+
+    def _eval_Text(self, node: S.Text, frame):
+        raise GacalcTypeError(f"\"{node.value}\" is a word in quotes, not a value: words "
+                              "name conventions in calls such as euler_angles(R, \"zyx\")",
+                              node.span)
 
     def call_user(self, function: UserFunction, node: S.Call, frame):
         count = len(node.args)
@@ -601,6 +647,9 @@ class CallContext:
         return value
 
     def integer(self, index: int, low: int, high: int) -> int:
+        exact = whole_number(self.args[index])     # read without sympy when it is one
+        if exact is not None and low <= exact <= high:
+            return exact
         value = self.scalar(index)
         if not value.is_Integer or not low <= int(value) <= high:
             raise GacalcTypeError(f"{self._what(index)} must be a whole number from {low} to "
@@ -609,6 +658,17 @@ class CallContext:
 
     def inverse(self, value, index: int):
         return self.evaluator.inverse(value, self.span(index))
+
+    def word(self, index: int, example: str) -> str:
+        """A word in quotes (for built-ins registered with words=True)."""
+        value = self.args[index]
+        if not isinstance(value, str):
+            raise GacalcTypeError(f"{self._what(index)} must be a word in quotes such as "
+                                  f"{example}, not {describe_value(value)}", self.span(index))
+        return value
+
+    def is_word(self, index: int) -> bool:
+        return isinstance(self.args[index], str)
 
     def quaternion(self, index: int):
         value = self.args[index]

@@ -7,6 +7,9 @@ the pieces together.
 
 from __future__ import annotations
 
+import re
+import textwrap
+
 from gacalc.export import targets as export_targets
 
 from .builtins import BUILTINS
@@ -15,9 +18,10 @@ _OPERATORS_HELP = """\
 operators, loosest to tightest:
   A + B   A - B                 sum, difference
   A * B   A B   A / B           geometric product (also side by side), A B^-1
-  A /\\ B  A _| B  A |_ B  A . B outer product, left and right contraction, inner
-                                product (Unicode: ∧ ⌋ ⌊ ·); one level, tighter than the
-                                geometric product; mixing two of them needs parentheses
+  A /\\ B  A _| B  A |_ B  A . B outer product, left and right contraction,
+                                inner product (Unicode: ∧ ⌋ ⌊ ·); one level,
+                                tighter than the geometric product; mixing two
+                                of them needs parentheses
   -A                            negation
   A~  A^k  A^-1  A²             reverse (also †), integer power, inverse
   <A>k  <A>                     grade-k part, scalar part
@@ -27,17 +31,25 @@ operators, loosest to tightest:
 def _emit_help() -> tuple[str, str]:
     """The emit topic, from the export-target table (a new target appears by itself)."""
     targets = export_targets.TARGETS
-    lines = [t.help for t in export_targets.described()]
+    # every target of the table, a late-registered one without a help line too
+    lines = [t.help or f"emit {t.name} EXPR" for t in targets.values()]
+    lines.append("emit TARGET components EXPR   the components, even when a formula is found")
     lines.append("  example: vector a, b; emit python a /\\ b as wedge")
     return (f"code for a value: emit {'|'.join(targets)} EXPR [as NAME] [to \"file\"]",
             "\n".join(lines))
 
 
 HELP_TOPICS: dict[str, tuple[str, str]] = {
-    "check": ("check an identity: check L == R [given C = D, ...]",
+    "check": ("check an identity: check L == R [as rotation] [given C = D, ...]",
               "check L == R [given C = D, ...]\n"
-              "  reports held, FAILED (with the simplified L - R) or undecided\n"
-              "  example: vector a, b; check a b == a . b + a /\\ b"),
+              "  reports held, FAILED (with the simplified L - R, and its value at a point\n"
+              "  where the sides differ when one is found) or undecided (saying why: the\n"
+              "  time budget ran out, or what the method could not decide)\n"
+              "  example: vector a, b; check a b == a . b + a /\\ b\n"
+              "check L == R as rotation [given C = D, ...]\n"
+              "  rotors L and R are the same rotation: L R~ is 1 or -1 (R and -R turn\n"
+              "  every vector alike); says which sign it found; refuses other values\n"
+              "  example: check rotor(e12, t + 2 pi) == rotor(e12, t) as rotation"),
     "given": ("side conditions of one check", "check L == R given C = D, E = F\n"
               "  example: vector a, b; check (a + b)^2 == a^2 + b^2 given a . b = 0"),
     "assume": ("session-wide side conditions: assume C = D, ... / assume none",
@@ -59,6 +71,14 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
                 "formula auto   print every result as a formula when one is found\n"
                 "formula off    print components again (F3 in the REPL switches)\n"
                 "  example: vector a, b, c; formula a _| (b /\\ c)"),
+    "budget": ("the time each statement may take: budget SECONDS / budget none / budget",
+               "budget SECONDS   each later statement is abandoned after this many seconds\n"
+               "                 of wall-clock time (the session stays as it was)\n"
+               "budget none      no time limit (Ctrl-C still stops a statement)\n"
+               "budget           prints the budget in force\n"
+               "  the default is 10 s in the interactive calculator and 30 s for scripts\n"
+               "  (--statement-budget SECONDS sets it at start)\n"
+               "  example: budget 5"),
     "against": ("compare a shown value with another: show EXPR against B",
                 "  example: show e1 + e2 against e12"),
     "as": ("the function name of emitted code", "  example: emit c a b as product"),
@@ -109,6 +129,19 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
                  "              d/dt (R x R~) = cross(w, R x R~)\n"
                  "series(X, s, s0, n)  Taylor polynomial through (s - s0)^n\n"
                  "  example: scalar w, t; angular_velocity(rotor(e12, w t), t)"),
+    "attitude": ("Euler / Tait-Bryan angles and rotation vectors: euler_angles, "
+                 "from_euler_angles, rotation_vector, from_rotation_vector",
+                 "euler_angles(R, \"zyx\")   the angles (a, b, c) of a rotor, a list; angles in\n"
+                 "              radians, rotations active (R x R~), rotor(e3, t) = exp(-e12 t/2)\n"
+                 "sequences: \"xyz\" ... (six Tait-Bryan) and \"zxz\" ... (six proper Euler)\n"
+                 "\"intrinsic\" (the default) turns about the moving axes, R = R1(a) R2(b) R3(c);\n"
+                 "\"extrinsic\" about the fixed axes in the order written, R = R3(c) R2(b) R1(a)\n"
+                 "yaw-pitch-roll is \"zyx\" intrinsic; ranges: a, c in (-pi, pi], b in\n"
+                 "              [-pi/2, pi/2] (Tait-Bryan) or [0, pi] (proper Euler)\n"
+                 "gimbal lock (b at +-pi/2, or 0, pi): a note; the third angle is set to 0\n"
+                 "from_euler_angles(\"zyx\", a, b, c [, \"extrinsic\"])   the rotor (or a list (a, b, c))\n"
+                 "rotation_vector(R)   theta n with |theta| <= pi; from_rotation_vector(v) = exp(-v I/2)\n"
+                 "  example: euler_angles(from_euler_angles(\"zyx\", pi/3, pi/4, pi/6), \"zyx\")"),
     "matrix3": ("declare symbolic 3x3 matrices: matrix3 M",
                 "matrix3 M   entries M11 M12 M13 M21 ... M33 (row, column); linmap(M) is\n"
                 "            the linear map with that matrix\n"
@@ -116,6 +149,33 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
     "unit": ("after a declaration: the declared values have norm 1",
              "  example: vector n unit"),
     "operators": ("operators and their precedence", _OPERATORS_HELP),
+    "I": ("the pseudoscalar I = e123",
+          "I is e123, the unit pseudoscalar: I^2 = -1, and it commutes with everything.\n"
+          "dual(A) = A I^-1. In pauli(...) it is i times the identity; in matrix entries\n"
+          "the complex unit is written i (so the two never look alike).\n"
+          "  example: I I"),
+    "i": ("the complex unit of matrix entries",
+          "i is the complex unit in matrix literals: [i, 1; 1, -i] is pauli(e1 + e12).\n"
+          "Outside [ ] it is an ordinary name; the pseudoscalar is I (help I).\n"
+          "  example: from_pauli([i, 1; 1, -i])"),
+    "pi": ("the number pi", "pi is exact (numeric(pi) gives digits)\n  example: cos(pi/3)"),
+    "ans": ("the last result", "ans is the value of the last expression or assignment\n"
+            "  example: e1 + e2; ans ans"),
+    "quit": ("leave the interactive calculator: quit, exit or Ctrl-D",
+             "quit (or exit, or Ctrl-D) leaves the interactive calculator; the input history\n"
+             "is kept for the next session. In a script, and once you assign it, quit is an\n"
+             "ordinary name.\n"
+             "  example: quit"),
+    "in": ("the range of a declared scalar: scalar a in (low, high)",
+           "scalar a in (0, pi)    declares a with 0 < a < pi; [ ] ends are closed\n"
+           "  example: scalar a in (0, pi)"),
+    "none": ("drop the assumptions: assume none", "  example: assume none"),
+    "force": ("overwrite any file: save \"file.gac\" force",
+              "  example: save \"session.gac\" force"),
+    "auto": ("print results as formulas: formula auto", "  example: formula auto"),
+    "off": ("print components again: formula off", "  example: formula off"),
+    "components": ("emit the components: emit TARGET components EXPR",
+                   "  example: vector a, b; emit c components a /\\ b"),
     "names": ("names, numbers and symbols",
               "names: a letter, then letters, digits and inner underscores (Greek letters\n"
               "allowed: θ is theta). A name never assigned is a real scalar symbol.\n"
@@ -130,11 +190,20 @@ _OPERATOR_WORDS = {"/\\", "∧", "_|", "⌋", "|_", "⌊", ".", "·", "⋅", "~"
                    ">", "*", "+", "-", "/", "==", "="}
 
 
+_ALIASES = {"exit": "quit"}
+
+
 def topic_entry(topic: str) -> tuple[str, str] | None:
     """(one-line summary, text) of a statement or topic, or None."""
     if topic == "emit":
         return _emit_help()
-    return HELP_TOPICS.get(topic)
+    target = export_targets.target(topic)
+    if target is not None:              # help latex, help numpy: that target's line
+        return (f"an emit target: emit {topic} EXPR",
+                f"{target.help or f'emit {topic} EXPR'}\n  more: help emit")
+    if re.fullmatch(r"e[1-3]+", topic):    # a basis blade: how blades are named
+        return HELP_TOPICS["names"]
+    return HELP_TOPICS.get(_ALIASES.get(topic, topic))
 
 
 def help_text(topic: str | None, functions: dict | None = None) -> str | None:
@@ -164,14 +233,38 @@ def _overview() -> str:
     lines = ["statements:",
              "  EXPR   NAME = EXPR   f(x, y) = EXPR   (a trailing ';' hides the result)",
              "  scalar | vector | bivector | rotor | multivector | matrix3 NAME[(t)], ... [unit]",
-             "  check L == R [given C = D, ...]    assume C = D, ... | assume none",
+             "  check L == R [as rotation] [given C = D, ...]",
+             "  assume C = D, ... | assume none",
              "  show [latex] EXPR [against B]      formula EXPR | formula auto | off",
              "  emit "
              f"{'|'.join(export_targets.TARGETS)} EXPR [as NAME] [to \"file\"]",
-             "  use \"file\"   save \"file\" [force]   help [NAME]",
+             "  use \"file\"   save \"file\" [force]   help [NAME]   budget [SECONDS | none]",
              "  draw X, ... [to \"file.svg\"]",
              "functions:"]
     for category, names in categories.items():
         lines.append(f"  {category + ':':17}{', '.join(names)}")
     lines.append("more: help operators, help names, help calculus, help NAME")
     return "\n".join(lines)
+
+
+# "name    description" or "topic: text": where the description starts
+_COLUMN = re.compile(r"^(\s*\S.*?\s{2,})\S|^(\s*\S+:\s+)\S")
+
+
+def wrapped(text: str, width: int) -> str:
+    """Help text with lines longer than ``width`` broken at word boundaries (textwrap);
+    a continuation lines up under the description column of a "NAME   text" line, or
+    under the line's own indentation."""
+    out = []
+    for line in text.split("\n"):
+        if len(line) <= width:
+            out.append(line)
+            continue
+        column = _COLUMN.match(line)
+        indent = len(column.group(1) or column.group(2)) if column \
+            else len(line) - len(line.lstrip())
+        if indent > width // 2:
+            indent = len(line) - len(line.lstrip()) + 2
+        out.extend(textwrap.wrap(line, width, subsequent_indent=" " * indent,
+                                 break_long_words=False, break_on_hyphens=False))
+    return "\n".join(out)

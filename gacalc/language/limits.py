@@ -308,6 +308,20 @@ def check_call(builtin, args: list, span: Span | None):
         check_chain(values, span, f"{builtin.name}(...) here")
 
 
+def check_substitutions(args, span):
+    """subs(A, t, v, s, w, ...) or subs(A, (t, v), ...): each replacement against A."""
+    replacements = []
+    rest = list(args[1:])
+    while rest:
+        item = rest.pop(0)
+        if isinstance(item, tuple) and len(item) == 2:       # a (t, v) list
+            replacements.append(item[1])
+        elif rest:
+            replacements.append(rest.pop(0))
+    for replacement in replacements:
+        check_substitution([args[0], None, replacement], span)
+
+
 def check_substitution(args, span):
     """subs(A, t, v): each t^k in A becomes v^k."""
     if len(args) != 3:

@@ -19,6 +19,7 @@ Statements end at a newline or ';' (a ';' silences the result); see ``parse_stat
 
 from __future__ import annotations
 
+import math
 from fractions import Fraction
 from functools import lru_cache
 from typing import Iterator
@@ -33,6 +34,7 @@ from .scanner import Token, scan, token_error
 MAX_STATEMENT_CHARS = 200_000
 MAX_DEPTH = 100
 MAX_NUMBER_DIGITS = 1000
+MAX_BUDGET_SECONDS = 86_400      # a day; longer is 'budget none'
 
 _WEDGE_KINDS = (T.WEDGE, T.LCONTRACT, T.RCONTRACT, T.INNER)
 _PRIMARY_START = frozenset(T.NAME_KINDS | {T.NUMBER, T.LPAREN, T.LANGLE})
@@ -388,6 +390,10 @@ class _StatementParser:
             raise token_error(token)
         if token.kind == T.SUPERSCRIPT:
             self.fail("a superscript exponent needs something before it to raise")
+        if token.kind == T.STRING:
+            self.fail(f"{token.text} is a word in quotes: words are file names (use, save, "
+                      "emit ... to) and arguments naming a convention, as in "
+                      "euler_angles(R, \"zyx\")")
         if token.kind == T.KEYWORD:
             self.fail(f"'{token.text}' is a reserved word and cannot be used in an expression")
         if token.kind == T.DECLARATION:
@@ -465,7 +471,13 @@ class _StatementParser:
             while True:
                 if self.check(T.COMMA):
                     self.fail("missing argument before ','")
-                args.append(self._bracketed())
+                if self.check(T.STRING):
+                    # a word in quotes ("zyx") naming a convention: only the built-ins
+                    # that take one accept it (the evaluator says so)
+                    word = self.advance()
+                    args.append(S.Text(word.span, word.value))
+                else:
+                    args.append(self._bracketed())
                 if self.check(T.COMMA):
                     self.advance()
                     if self.check(T.RPAREN):
@@ -520,7 +532,8 @@ class _StatementParser:
         if kind in (T.KEYWORD, T.DECLARATION):
             self.fail(f"unexpected '{token.text}' here")
         if kind == T.STRING:
-            self.fail("unexpected string: strings are paths for use, save and emit ... to")
+            self.fail("unexpected string: strings are paths for use, save and emit ... to, "
+                      "and words such as \"zyx\" in a call of euler_angles")
         self.fail(f"unexpected {describe(token)}")
 
     def _new_name(self, token: Token, what: str) -> str:
@@ -743,11 +756,18 @@ class _StatementParser:
         if self.at_end():
             self.fail("expected the right-hand side after '=='")
         right = self.expression()
+        rotation = False
+        if self.check(T.KEYWORD, "as"):
+            self.advance()
+            if not self.check(T.NAME, "rotation"):
+                self.fail("a check compares 'as rotation': check L == R as rotation")
+            self.advance()
+            rotation = True
         given = []
         if self.check(T.KEYWORD, "given"):
             self.advance()
             given = self._conditions("given")
-        return S.Check(keyword.span, left, right, given)
+        return S.Check(keyword.span, left, right, given, rotation=rotation)
 
     def _statement_given(self):
         self.fail("'given' belongs after a check: check L == R given C = D")
@@ -842,6 +862,26 @@ class _StatementParser:
             self.advance()
             force = True
         return S.Save(keyword.span, token.value, token.span, force)
+
+    def _statement_budget(self) -> S.Statement:
+        keyword = self.advance()
+        if self.at_end():
+            return S.BudgetSetting(keyword.span, None)
+        token = self.peek()
+        if token.is_name and token.value == "none" and self.peek(1).kind in _STATEMENT_END:
+            self.advance()
+            return S.BudgetSetting(keyword.span, math.inf)
+        usage = "budget takes a number of seconds: budget 5 (budget none: no limit)"
+        if token.kind != T.NUMBER:
+            self.fail(usage)
+        if self.peek(1).kind not in _STATEMENT_END:
+            self.fail(usage, self.peek(1).span)
+        self.advance()
+        seconds = _fraction(token.text) if len(token.text) <= MAX_NUMBER_DIGITS else None
+        if seconds is None or not 0 < seconds <= MAX_BUDGET_SECONDS:
+            self.fail(f"a budget is more than 0 and at most {MAX_BUDGET_SECONDS} seconds "
+                      "(budget none: no limit)", token.span)
+        return S.BudgetSetting(keyword.span, float(seconds))
 
     def _statement_help(self) -> S.Statement:
         keyword = self.advance()

@@ -39,6 +39,9 @@ class Result(Positioned):
     def text(self) -> str:
         """The rendered result; a bug in a printer becomes one line naming the log file
         with its traceback (front-ends print results outside the session's guard)."""
+        failed = self.__dict__.get("_failed_text")
+        if failed is not None:           # reported once: reading the text again re-logs nothing
+            return failed
         try:
             return self.render(self.unicode)
         except Exception as error:       # noqa: BLE001 - our bug, reported, not raised
@@ -47,7 +50,9 @@ class Result(Positioned):
             where = self.span.location if self.span is not None else ""
             path = write_internal_error(error, self.statement_text, where)
             message = f"internal error while printing this result ({summary(error)})"
-            return message + (f"; the traceback is in {path}" if path is not None else "")
+            message += f"; the traceback is in {path}" if path is not None else ""
+            self.__dict__["_failed_text"] = message
+            return message
 
     def render(self, unicode: bool = False) -> str:   # pragma: no cover - overridden
         raise NotImplementedError
@@ -128,6 +133,11 @@ class CheckResult(Result):
     difference: object = None
     conditions: list = field(default_factory=list)   # texts of the conditions it used
     complete: bool = True
+    out_of_time: bool = False     # undecided because the time budget ran out
+    reason: str = ""              # undecided otherwise: the limit the method reached
+    witness: tuple | None = None  # (point text, L - R there) of a failure at a point
+    rotation: bool = False     # check L == R as rotation: ``difference`` is then L R~
+    note: str = ""             # the sign found (as rotation); a failure's sign-only line
 
     def __post_init__(self):
         self.kind = "check"
@@ -144,6 +154,8 @@ class CheckResult(Result):
 
     def render(self, unicode: bool = False) -> str:
         statement = self.statement_text
+        if self.rotation:
+            return self._render_rotation(statement, unicode)
         if self.outcome == "holds":
             if self.conditions:
                 return f"held given {', '.join(self.conditions)}: {statement}"
@@ -151,9 +163,34 @@ class CheckResult(Result):
         if self.outcome == "fails":
             difference = self.difference_text(unicode).replace("\n", "\n      ")
             given = f" (given {', '.join(self.conditions)})" if self.conditions else ""
-            return f"FAILED: {statement}{given}\n  L - R = {difference}"
-        return (f"undecided: {statement} (could not decide whether L - R is zero within the "
-                "time budget)")
+            note = "".join(f"\n  {line}" for line in self.note.splitlines())
+            return (f"FAILED: {statement}{given}\n  L - R = {difference}"
+                    + self._witness_line(unicode) + note)
+        if self.out_of_time or not self.reason:
+            return (f"undecided: {statement} (could not decide whether L - R is zero within "
+                    "the time budget)")
+        return f"undecided: {statement} (not decided: {self.reason})"
+
+    def _witness_line(self, unicode: bool) -> str:
+        if self.witness is None:
+            return ""
+        from gacalc.printing.text import unicode_text, value_text
+
+        point, value = self.witness
+        text = value_text(value, unicode, 10**6).replace("\n", " ")
+        return f"\n  L - R = {text} at {unicode_text(point) if unicode else point}"
+
+    def _render_rotation(self, statement: str, unicode: bool) -> str:
+        """check L == R as rotation: the sign it found, or L R~ when that is not +-1."""
+        if self.outcome == "holds":
+            given = f" given {', '.join(self.conditions)}" if self.conditions else ""
+            return f"held{given}: {statement} (the same rotation: {self.note})"
+        if self.outcome == "fails":
+            product = self.difference_text(unicode).replace("\n", "\n      ")
+            given = f", given {', '.join(self.conditions)}" if self.conditions else ""
+            return (f"FAILED: {statement} (L R~ is neither 1 nor -1{given}: different rotations)"
+                    f"\n  L R~ = {product}")
+        return f"undecided: {statement} (could not decide whether L R~ is 1 or -1)"
 
 
 @dataclass

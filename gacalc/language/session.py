@@ -65,6 +65,9 @@ DEFAULT_STATEMENT_BUDGET = 30.0   # seconds of wall-clock time for one statement
 # The REPL's default is lower: a person is waiting at the prompt, and a script run
 # unattended may take its time.  Both are set by --statement-budget.
 REPL_STATEMENT_BUDGET = 10.0
+# A session's generator registry is renewed (only the generators its values use kept)
+# when it holds more than this many, or twice what the last renewal kept.
+RENEW_REGISTRY_ABOVE = 64
 
 
 # The session -------------------------------------------------------------------------
@@ -98,6 +101,8 @@ class Session(StatementExecutors, FileStatements):
         self.algebra = AlgebraContext()   # this session's generators and caches
         self._working: State | None = None
         self._clock = StatementClock()
+        self._pending_budget: float | None = None   # set by a budget statement that runs
+        self._renew_above = RENEW_REGISTRY_ABOVE       # generators before a fresh registry
         self.current_span: Span | None = None   # statement being run (for interrupts)
 
     # Read-only views of the state ----------------------------------------------------
@@ -219,7 +224,8 @@ class Session(StatementExecutors, FileStatements):
                 return
 
     def _seconds(self) -> float | None:
-        seconds = self.statement_budget
+        seconds = self.statement_budget if self._pending_budget is None else \
+            self._pending_budget
         if seconds is None or seconds <= 0 or math.isinf(seconds):
             return None
         return float(seconds)
@@ -229,6 +235,7 @@ class Session(StatementExecutors, FileStatements):
         self._working = scratch
         self.current_span = statement.span
         results: list = []
+        self._pending_budget = None
         try:
             with statement_budget(self._clock, self._seconds()), self.algebra.active():
                 self._execute(statement, scratch, results, context)
@@ -244,7 +251,7 @@ class Session(StatementExecutors, FileStatements):
             return [GacalcLimitError(
                 f"the statement ran out of its time budget ({self._seconds():g} s) and was "
                 "abandoned; the session is unchanged", statement.span,
-                hint="a simpler form, fewer symbols, or a larger statement budget")]
+                hint="a simpler form, fewer symbols, or a larger budget: budget SECONDS")]
         except RecursionError:
             return [GacalcLimitError("expression too deeply nested to evaluate",
                                      statement.span)]
@@ -256,8 +263,26 @@ class Session(StatementExecutors, FileStatements):
         finally:
             self._working = None
             self.current_span = None
+            pending, self._pending_budget = self._pending_budget, None
         self._state = scratch           # one assignment: the commit is atomic
+        if pending is not None:
+            self.statement_budget = pending
+        if len(self.algebra.registry) > self._renew_above:
+            self._renew_algebra()
         return results
+
+    def _renew_algebra(self):
+        """Start a fresh generator registry holding only what the session's values use,
+        so that symbols declared and dropped long ago cost nothing (gacalc.algebra.compaction).
+        The next renewal waits until the registry has doubled again: the work stays in
+        proportion to the growth."""
+        from gacalc.algebra.compaction import renewed
+
+        try:
+            self.algebra = renewed(self.algebra, (self._state,))
+        except KeyboardInterrupt:
+            pass       # values are unchanged either way; renew after a later statement
+        self._renew_above = max(RENEW_REGISTRY_ABOVE, 2 * len(self.algebra.registry))
 
     # Statements ---------------------------------------------------------------------
     def _execute(self, statement: S.Statement, state: State, results: list,

@@ -17,7 +17,8 @@ from .builtins import BUILTINS
 from .errors import GacalcError, GacalcMathError, GacalcNameError, GacalcTypeError
 from .evaluator import (Condition, Evaluator, State, UserFunction, is_multivector,
                         relevant_conditions, symbol)
-from .help import help_text
+from .help import help_text, wrapped
+from .watchdog import restart as restart_clock
 from .results import (CheckResult, DeclarationResult, EmitResult, HelpResult, NoteResult,
                       ShowResult, ValueResult)
 
@@ -79,6 +80,9 @@ class StatementExecutors:
         value = self._evaluate(statement.expr, state, results, statement)
         value, complete, _ = self._simplified(value, state)
         if name is not None:
+            rebound = _rebinding_note(state, name)
+            if rebound:
+                results.append(self._note(statement, rebound))
             state.functions.pop(name, None)
             state.declarations.pop(name, None)
             state.unit_names.discard(name)
@@ -220,34 +224,42 @@ class StatementExecutors:
         return out
 
     def _do_Check(self, statement, state, results, context):
-        from gacalc.simplify import is_zero
+        from gacalc.simplify import decide
+        from gacalc.simplify.decision import combine
 
         given = self._conditions(statement.given, state, results, statement, "given")
         left = self._evaluate(statement.left, state, results, statement, given)
         right = self._evaluate(statement.right, state, results, statement, given)
+        if statement.rotation:
+            from .rotation_check import check_as_rotation
+
+            return check_as_rotation(self, statement, state, results, given, left, right)
         differences = _differences(left, right, statement)
         conditions = relevant_conditions(state.conditions() + given, differences)
         exprs = [c.expr for c in conditions]
-        verdicts = [is_zero(d, (), self._simplify_budget()) for d in differences]
+        decision = combine(decide(d, (), self._simplify_budget()) for d in differences)
         used: list[Condition] = []
-        if not all(v is True for v in verdicts) and exprs:
-            verdicts = [is_zero(d, exprs, self._simplify_budget()) for d in differences]
+        if decision.verdict is not True and exprs:
+            decision = combine(decide(d, exprs, self._simplify_budget()) for d in differences)
             used = conditions
-        if all(v is True for v in verdicts):
-            outcome = "holds"
-        elif any(v is False for v in verdicts):
-            outcome = "fails"
-        else:
-            outcome = "undecided"
+        outcome = {True: "holds", False: "fails", None: "undecided"}[decision.verdict]
         difference, complete = None, True
         if outcome != "holds":
             simplified = [self._simplified(d, state, given) for d in differences]
             complete = all(s[1] for s in simplified)
             difference = _reassemble(left, right, [s[0] for s in simplified])
+        witness = _witness(self, decision, left, right, differences, state, given)
         texts = _unique(c.text for c in used)
+        note = ""
+        if outcome == "fails":   # say so when the sides differ only in sign (proved)
+            from .rotation_check import sign_only_note
+
+            note = sign_only_note(self, left, right, exprs)
         results.append(self._result(CheckResult, statement, outcome=outcome,
                                     difference=difference, conditions=texts,
-                                    complete=complete))
+                                    complete=complete, out_of_time=decision.out_of_time,
+                                    reason=decision.reason, witness=witness,
+                                    note=note))
 
     def _do_Assume(self, statement, state, results, context):
         if statement.clear:
@@ -267,7 +279,7 @@ class StatementExecutors:
         state.assumptions = state.assumptions + new
         _check_consistent(state.conditions(), new)
         self._log(state, statement)
-        if not statement.silent:
+        if not statement.silent and new:     # conditions that always hold were said so
             results.append(self._note(statement, "assuming " + "; ".join(
                 _unique(c.text for c in new))))
 
@@ -354,12 +366,26 @@ class StatementExecutors:
                               statement.span) from None
         run_draw(self, statement, state, results, context)
 
+    def _do_BudgetSetting(self, statement, state, results, context):
+        # a session setting: it holds for the statements after this one, those of a file
+        # being used too (the clock restarts with the new length); the session keeps it
+        # when the statement that set it succeeds (Session._run_one)
+        if statement.seconds is not None:
+            self._pending_budget = statement.seconds
+            self._clock.start(self._seconds())
+            restart_clock(self._clock)
+        seconds = self._seconds()
+        results.append(self._note(statement, (
+            f"each statement may run {seconds:g} s (budget SECONDS changes it, budget none "
+            "lifts it)") if seconds is not None else
+            "statements run without a time limit (budget SECONDS sets one)"))
+
     def _do_Help(self, statement, state, results, context):
         text = help_text(statement.topic, state.functions)
         if text is None:
             raise GacalcNameError(f"no help on {statement.topic!r}",
                                   statement.span, hint="help lists the topics")
-        results.append(self._result(HelpResult, statement, help=text))
+        results.append(self._result(HelpResult, statement, help=wrapped(text, self.width)))
 
 
 # Helpers ------------------------------------------------------------------------------
@@ -458,6 +484,41 @@ def _differences(left, right, statement) -> list:
         raise GacalcTypeError(f"cannot compare {describe(left)} with {describe(right)}",
                               statement.span)
     return differences
+
+
+def _rebinding_note(state, name: str) -> str:
+    """What an assignment replaces when the name was declared or a function (a plain
+    value simply changes); values computed before keep the old symbols."""
+    kind = state.declarations.get(name)
+    if kind == "scalar":
+        return (f"{name} was a declared scalar symbol and is now a value; values computed "
+                f"before keep the symbol {name}")
+    if kind is not None:
+        from gacalc.algebra.symbolic import component_names
+
+        components = ", ".join(component_names(kind, name))
+        return (f"{name} was a declared {kind} ({components}) and is now a value; values "
+                "computed before keep its components")
+    function = state.functions.get(name)
+    if function is not None:
+        return f"{name} was the function {name}({', '.join(function.params)}) and is now a value"
+    return ""
+
+
+def _witness(executor, decision, left, right, differences, state, given):
+    """(point text, L - R at the point) of a check that failed at a sample point, or None."""
+    if decision.verdict is not False or not decision.witness:
+        return None
+    from gacalc.simplify.decision import witness_text
+
+    point = decision.point
+    at_point = [executor._simplified(d.subs(point), state, given)[0] for d in differences]
+    import sympy
+
+    if any(e.has(sympy.zoo, sympy.nan, sympy.oo) for d in at_point
+           for e in kind_of(d).scalars(d)):
+        return None       # the point proves the sides differ; its value is not shown
+    return witness_text(decision), _reassemble(left, right, at_point)
 
 
 def _reassemble(left, right, differences):

@@ -95,6 +95,14 @@ class Call(Node):
 
 
 @dataclass
+class Text(Node):
+    """``"zyx"``: a word in double quotes, accepted only as an argument of the built-ins
+    that name a convention with one (``euler_angles(R, "zyx")``); never a value."""
+
+    value: str
+
+
+@dataclass
 class ListLiteral(Node):
     """``(a, b, c)``: a list of values (two or more items, in parentheses)."""
 
@@ -182,6 +190,7 @@ class Check(Statement):
     left: Node
     right: Node
     given: list
+    rotation: bool = field(default=False, kw_only=True)   # check L == R as rotation
 
 
 @dataclass
@@ -228,6 +237,14 @@ class Save(Statement):
     path: str
     path_span: Span = field(repr=False, compare=False)
     force: bool
+
+
+@dataclass
+class BudgetSetting(Statement):
+    """budget SECONDS / budget none (no limit): the time of each later statement;
+    ``budget`` alone (``seconds`` None) prints it."""
+
+    seconds: float | None
 
 
 @dataclass
@@ -384,6 +401,9 @@ class _Unparser:
         args = ", ".join(self.text(arg) for arg in node.args)
         space = " " if node.spaced else ""
         return f"{_greek(node.name, self.unicode)}{space}({args})", _PREC_ATOM
+
+    def visit_Text(self, node):
+        return f'"{node.value}"', _PREC_ATOM
 
     def visit_ListLiteral(self, node):
         return "(" + ", ".join(self.text(item) for item in node.items) + ")", _PREC_ATOM

@@ -107,7 +107,7 @@ OPERATOR_SPELLINGS: dict[str, tuple[str, ...]] = {
 
 # Reserved words: never names.
 KEYWORDS = ("check", "given", "assume", "show", "against", "emit", "as", "to",
-            "use", "save", "help", "formula", "draw")
+            "use", "save", "help", "formula", "draw", "budget")
 # Declarations: reserved words, except that "rotor" followed by "(" is the function.
 DECLARATION_KINDS = ("scalar", "vector", "bivector", "rotor", "multivector", "matrix3")
 # The export targets of gacalc.export.targets (the parser reads that table itself, so a

@@ -31,7 +31,6 @@ from __future__ import annotations
 import re
 
 from gacalc.algebra.basis import BASIS_GRADES, BASIS_NAMES
-from gacalc.algebra.spelling import input_text
 from gacalc.language.tokens import greek
 
 DEFAULT_WIDTH = 78
@@ -41,7 +40,8 @@ _SUPERSCRIPTS = str.maketrans("0123456789-", "⁰¹²³⁴⁵⁶⁷⁸⁹⁻")
 
 # Coefficient texts ---------------------------------------------------------------
 def is_sum(text: str) -> bool:
-    """True when a coefficient text has a + or - at the top level (not its leading sign)."""
+    """True when a coefficient text has a + or - (ASCII or Unicode minus) at the top level
+    (not its leading sign)."""
     depth = 0
     previous = ""
     for index, char in enumerate(text):
@@ -49,7 +49,7 @@ def is_sum(text: str) -> bool:
             depth += 1
         elif char == ")":
             depth -= 1
-        elif char in "+-" and depth == 0 and index > 0 and previous not in "^*/(":
+        elif char in "+-\u2212" and depth == 0 and index > 0 and previous not in "^*/(":
             return True
         if not char.isspace():
             previous = char
@@ -186,6 +186,8 @@ def multivector_text(mv, unicode: bool = False, width: int = DEFAULT_WIDTH,
 # Scalars, matrices, quaternions -------------------------------------------------------
 def scalar_text(expr, unicode: bool = False) -> str:
     """A sympy scalar expression as gacalc text (ASCII operators: * ^ /)."""
+    from gacalc.algebra.spelling import input_text   # sympy's printer: loaded when used
+
     text = input_text(expr)
     return unicode_text(text) if unicode else text
 
@@ -209,9 +211,10 @@ def complex_text(expr, unicode: bool = False) -> str:
         term = "i"
     else:
         term = f"({body})*i" if is_sum(body) else f"{body}*i"
+    minus = UNICODE_MINUS if unicode else "-"
     if not re_text:
-        return f"-{term}" if sign < 0 else term
-    return f"{re_text} {'-' if sign < 0 else '+'} {term}"
+        return f"{minus}{term}" if sign < 0 else term
+    return f"{re_text} {minus if sign < 0 else '+'} {term}"
 
 
 def matrix_text(matrix, unicode: bool = False) -> str:

@@ -19,13 +19,16 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef, from_expr
 from gacalc.algebra.context import Simplifier, install_simplifier
 from gacalc.algebra.multivector import Multivector
 
+from .angles import ANGLE_SECONDS
 from .budget import Budget, BudgetExceeded, time_limit
+from .decision import (NONZERO, OUT_OF_TIME, ZERO, Decision, combine, nonzero_at,
+                       opaque_reason, sample_points, undecided)
 from .exact_values import _exact_atan2, _exact_square_root
 from .ranges import ranges_of, split_conditions
 from .relations import has_opaque_generators, reduce_poly_relations, shortest_display
@@ -79,79 +82,99 @@ def _reduce_equations(coef: Coef, conditions, budget) -> Coef:
     return parts[0] if len(parts) == 1 else parts[0] / parts[1]
 
 
-def display_coef(coef: Coef, conditions=None, budget: Budget | None = None) -> Coef:
+def display_coef(coef: Coef, conditions=None, budget: Budget | None = None,
+                 angle_budget: Budget | None = None) -> Coef:
+    """The coefficient as it is printed; ``angle_budget`` is the share of the multiple-angle
+    rewrite (one for all coefficients of a value; its own when None)."""
     c = reduce_coef(coef, conditions, budget)
     if c is None or c.expr is not None:
         return c
     num, den = c.parts()
-    num = shortest_display(num, budget)
+    num = shortest_display(num, budget, angle_budget)
     if den is not None:
-        return num / shortest_display(den, budget)
+        return num / shortest_display(den, budget, angle_budget)
     return num
 
 
 def decide_zero(coef: Coef, conditions=None, budget: Budget | None = None):
     """True if the coefficient is zero, False if it is not, None if that cannot be decided."""
+    return decision_of_zero(coef, conditions, budget).verdict
+
+
+def decision_of_zero(coef: Coef, conditions=None, budget: Budget | None = None) -> Decision:
+    """The verdict of decide_zero with its grounds: a witness point for a False found
+    numerically, the method's limit (or the budget) for an undecided one."""
     if coef is None:
-        return True
-    if coef.expr is not None:
-        value = sympy.simplify(coef.expr)
-        return True if value == 0 else (False if value.is_number else None)
-    c = reduce_coef(coef, conditions, budget)
-    if c.is_zero():
-        return True
+        return ZERO
     equations, _ = split_conditions(conditions)
     ranges = ranges_of(conditions)
+    if coef.expr is not None:
+        value = sympy.simplify(coef.expr)
+        if value == 0:
+            return ZERO
+        if value.is_number:
+            return NONZERO
+        return _decide_by_points(value, budget, ranges, equations)
+    c = reduce_coef(coef, conditions, budget)
+    if c.is_zero():
+        return ZERO
     if equations:
         # a nonzero remainder only says "not in the ideal"; decide looks for a real witness
         verdict = _conditions_reducer(equations).decide(c, budget)
         if verdict is False and ranges:
-            return None   # the witness point may lie outside the ranges
-        return verdict
+            # the witness point may lie outside the ranges
+            return undecided("a point where L - R is not zero satisfies the equations, "
+                             "but it may lie outside the declared ranges")
+        if verdict is None:
+            return undecided("L - R does not reduce to zero modulo the side conditions, and "
+                             "no real point on them was found where it is not zero")
+        return Decision(verdict)
     if c.is_constant():
-        return False
+        return NONZERO
     if not has_opaque_generators(c):
         # symbols and trig families are algebraically independent once reduced (and a
         # nonzero analytic function does not vanish on a whole open range either)
-        return False
-    return _decide_opaque(c, budget, ranges)
+        return NONZERO
+    den = c.parts()[1]
+    return _decide_by_points(Coef(c.num).to_expr(), budget, ranges,
+                             denominator=None if den is None else Coef(den).to_expr())
 
 
-def _decide_opaque(c: Coef, budget, ranges=None):
-    """Generators with hidden relations (abs, exp, nested roots): a numeric witness (inside
-    the ranges, when there are any), then sympy."""
-    expr = Coef(c.num).to_expr()
-    free = sorted(expr.free_symbols, key=str)
-    values = {s: (ranges.sample(s, i) if ranges else sympy.Rational(7 + 3 * i, 11 + 2 * i))
-              for i, s in enumerate(free)}
-    from gacalc.algebra.signs import certified_sign
-
-    try:
-        if certified_sign(expr.subs(values)) is not None:
-            return False  # a point where it provably does not vanish disproves the identity
-    except (TypeError, ValueError, ZeroDivisionError):
-        pass
+def _decide_by_points(expr, budget, ranges=None, equations=(), denominator=None):
+    """Generators with hidden relations (abs, exp, nested roots): a numeric witness at
+    exact rational points (inside the ranges, when there are any), then sympy."""
+    if not equations:     # a point off the equations' set proves nothing
+        free = sorted(expr.free_symbols, key=str)
+        point = nonzero_at(expr, sample_points(free, ranges), budget, denominator)
+        if point is not None:
+            return Decision(False, witness=tuple((s, point[s]) for s in free))
     try:
         if budget is not None:
             budget.check()
-        return True if sympy.simplify(expr) == 0 else None
+        if sympy.simplify(expr) == 0:
+            return ZERO
     except BudgetExceeded:
-        return None
+        return OUT_OF_TIME
+    if equations:
+        return undecided("L - R has coefficients sympy could not simplify to zero under "
+                         "the side conditions")
+    return undecided(opaque_reason(expr, ranges))
 
 
 def is_zero(mv: Multivector, conditions=(), budget=None):
     """True / False / None (undecided) for 'this multivector vanishes'."""
+    return decide(mv, conditions, budget).verdict
+
+
+def decide(mv: Multivector, conditions=(), budget=None) -> Decision:
+    """is_zero with its grounds (gacalc.simplify.decision.Decision)."""
     budget = _as_budget(budget)
     try:
         with time_limit(budget):
-            verdicts = [decide_zero(c, conditions, budget) for c in mv.coefs() if c is not None]
+            return combine(decision_of_zero(c, conditions, budget)
+                           for c in mv.coefs() if c is not None)
     except BudgetExceeded:
-        return None
-    if all(v is True for v in verdicts):
-        return True
-    if any(v is False for v in verdicts):
-        return False
-    return None
+        return OUT_OF_TIME
 
 
 def simplify(mv: Multivector, conditions=(), budget=None) -> SimplifyResult:
@@ -159,7 +182,8 @@ def simplify(mv: Multivector, conditions=(), budget=None) -> SimplifyResult:
     budget = _as_budget(budget)
     try:
         with time_limit(budget):
-            coefs = [display_coef(c, conditions, budget) for c in mv.coefs()]
+            angle_budget = budget.within(ANGLE_SECONDS)   # shared by the components
+            coefs = [display_coef(c, conditions, budget, angle_budget) for c in mv.coefs()]
     except BudgetExceeded:
         return SimplifyResult(mv, complete=False, message="simplification gave up within its time budget")
     return SimplifyResult(Multivector.from_coefs(coefs), True, tuple(conditions or ()))
@@ -205,5 +229,5 @@ install_simplifier(StandardSimplifier())
 
 __all__ = [
     "SimplifyResult", "simplify", "is_zero", "simplify_scalar", "reduce_coef", "display_coef",
-    "decide_zero", "Budget", "BudgetExceeded", "DEFAULT_BUDGET", "StandardSimplifier", "from_expr",
+    "decide_zero", "decide", "decision_of_zero", "Decision", "Budget", "BudgetExceeded", "DEFAULT_BUDGET", "StandardSimplifier", "from_expr",
 ]

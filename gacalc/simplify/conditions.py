@@ -45,7 +45,7 @@ from __future__ import annotations
 from collections import OrderedDict
 
 import flint
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef, DomainError, ascii_text, from_expr, registry, trig
 from gacalc.algebra.context import current

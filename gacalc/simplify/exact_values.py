@@ -8,7 +8,7 @@ angle are simplification rules: they live here, and the standard simplifier
 from __future__ import annotations
 
 from flint.utils.flint_exceptions import DomainError as FlintDomainError
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef, from_expr, generator, generators_of, trig
 

@@ -8,7 +8,7 @@ the conditions of its factors.
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import from_expr, poly_to_expr
 

@@ -18,7 +18,7 @@ from collections import OrderedDict
 from functools import lru_cache
 
 import flint
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef, registry
 

@@ -16,7 +16,7 @@ Everything else is left alone: a rewrite that cannot be proved is never made.
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef, from_expr, registry, trig
 from gacalc.algebra.signs import box_of, is_range, linear_interval, sign_on, within

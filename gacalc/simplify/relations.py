@@ -12,9 +12,11 @@ from __future__ import annotations
 from functools import reduce as _fold
 from math import gcd
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra.coefficients import Coef, registry, trig
+
+from .angles import ANGLE_SECONDS, collapse_angles, expand_angle_sums
 
 MAX_MULTIPLE = 64  # cos(m x) with larger m is left alone rather than expanded
 MAX_PASSES = 12
@@ -182,6 +184,9 @@ def reduce_poly_relations(p, budget=None, companions=()) -> Coef:
     p = registry().lift(p)
     if p.is_constant():
         return Coef(p)
+    expanded = expand_angle_sums(p)   # a display form's cos(p/2 + t/2): back to single angles
+    if expanded is not None:
+        return reduce_poly_relations(expanded.num, budget, companions)
     c = _to_base_angles(p, budget, companions)
     out = _reduce_powers(registry().lift(c.num), budget)
     if c.den is not None:
@@ -298,17 +303,31 @@ def sine_form(p, budget=None) -> Coef:
     return Coef(num)
 
 
-def shortest_display(p, budget=None) -> Coef:
+def shortest_display(p, budget=None, angle_budget=None) -> Coef:
     """Half angles merged into full ones (the rotor sandwich's form); otherwise the shorter
-    of the cosine form and the sine form, ties going to the cosine form.  A long result
-    over numeric angles is also tried as a sum of single cosines and sines."""
+    of the cosine form and the sine form, ties going to the cosine form.  Then multiple
+    angles and sums of angles where they are shorter (gacalc.simplify.angles, under
+    ``angle_budget``, a share of ``budget``).  A long result over numeric angles is also
+    tried as a sum of single cosines and sines."""
     merged, merged_half = merge_half_angles(p, budget)
     if merged_half or not _families(registry().lift(p)):
         best = merged
     else:
         alt = sine_form(merged.num, budget)
         best = alt if len(registry().lift(alt.num)) < len(registry().lift(merged.num)) else merged
+    if angle_budget is None:
+        angle_budget = _angle_share(budget)
+    best = collapse_angles(p, best, angle_budget)
     return _shorter_linear_form(p, best, budget)
+
+
+def _angle_share(budget):
+    """The angle rewrite's budget: ANGLE_SECONDS, never past ``budget``."""
+    from .budget import Budget
+
+    if budget is None:
+        return Budget(ANGLE_SECONDS)
+    return budget.within(ANGLE_SECONDS)
 
 
 LONG_DISPLAY_CHARS = 300  # shorter displays are left exactly as they were

@@ -37,6 +37,8 @@ def kind_of(value) -> ValueKind | None:
 
 def describe(value) -> str:
     """A short description of a value's kind, for error messages."""
+    if isinstance(value, str):          # a word in quotes, as built-ins with words see it
+        return f'the word "{value}"'
     kind = kind_of(value)
     return kind.describe(value) if kind is not None else "a value"
 

@@ -109,6 +109,11 @@ class ValueKind:
         """The floating-point approximation of the value to ``digits`` digits, or None."""
         return None
 
+    def map_scalars(self, value, fn):
+        """The value with ``fn`` applied to each sympy scalar it is made of (subs uses
+        it), or None when the kind has no scalars to map."""
+        return None
+
     # show, emit, limits -------------------------------------------------------------------
     def report(self, value, simplifier, against=None):
         """The derived-forms report (gacalc.forms.report.Report): by default the value."""

@@ -10,7 +10,7 @@ reads back as the same map.
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra import Multivector
 from gacalc.algebra.outermorphism import LinearMap
@@ -43,6 +43,9 @@ class LinearMapKind(ValueKind):
 
     def scalars(self, value) -> list:
         return list(value.matrix)
+
+    def map_scalars(self, value, fn):
+        return value.map_entries(fn)
 
     def numeric(self, value, digits):
         return value.map_entries(lambda e: sympy.N(e, digits))

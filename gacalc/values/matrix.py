@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import loaded, sympy
 
 from gacalc.language.errors import GacalcMathError, GacalcTypeError
 
@@ -14,7 +14,7 @@ class MatrixKind(ValueKind):
     name = "matrix"
 
     def matches(self, value) -> bool:
-        return isinstance(value, sympy.MatrixBase)
+        return loaded("sympy") and isinstance(value, sympy.MatrixBase)   # none before sympy
 
     def describe(self, value) -> str:
         return f"a {value.rows}x{value.cols} matrix"
@@ -26,6 +26,9 @@ class MatrixKind(ValueKind):
 
     def scalars(self, value) -> list:
         return list(value)
+
+    def map_scalars(self, value, fn):
+        return value.applyfunc(fn)       # complex entries too
 
     def symbols(self, value) -> frozenset:
         return frozenset().union(*(e.free_symbols for e in value))

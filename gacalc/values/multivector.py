@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-import sympy
+from gacalc.lazy import sympy
 
 from gacalc.algebra import Multivector
 from gacalc.language.errors import GacalcMathError, GacalcTypeError
@@ -35,6 +35,9 @@ class MultivectorKind(ValueKind):
 
     def scalars(self, value) -> list:
         return [e for _, e in value.items()]
+
+    def map_scalars(self, value, fn):
+        return value.map_coefficients(fn)
 
     def is_exact_constant(self, value) -> bool:
         # free_symbols reads the generators: no sympy conversion of long coefficients

@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from sympy.algebras.quaternion import Quaternion
+from gacalc.lazy import loaded, sympy
 
 from gacalc.language.errors import GacalcTypeError
 
@@ -14,7 +14,7 @@ class QuaternionKind(ValueKind):
     name = "quaternion"
 
     def matches(self, value) -> bool:
-        return isinstance(value, Quaternion)
+        return loaded("sympy") and isinstance(value, sympy.Quaternion)   # none before sympy
 
     def text(self, value, unicode=False, width=78, indent=0) -> str:
         from gacalc.printing.text import quaternion_input_text
@@ -24,10 +24,13 @@ class QuaternionKind(ValueKind):
     def scalars(self, value) -> list:
         return [value.a, value.b, value.c, value.d]
 
+    def map_scalars(self, value, fn):
+        return Quaternion(*(fn(part) for part in self.scalars(value)))
+
     def numeric(self, value, digits):
         from sympy import N
 
-        return Quaternion(*(N(part, digits) for part in self.scalars(value)))
+        return sympy.Quaternion(*(N(part, digits) for part in self.scalars(value)))
 
     def add(self, left, right, sign, span):
         return left + right if sign > 0 else left - right
@@ -36,8 +39,8 @@ class QuaternionKind(ValueKind):
         return left * right
 
     def scale(self, value, factor):
-        return Quaternion(value.a * factor, value.b * factor, value.c * factor,
-                          value.d * factor)
+        return sympy.Quaternion(value.a * factor, value.b * factor, value.c * factor,
+                                value.d * factor)
 
     def power(self, evaluator, base, exponent, node):
         span = node.exponent.span
@@ -56,7 +59,7 @@ class QuaternionKind(ValueKind):
         return [Multivector.scalar(part) for part in (d.a, d.b, d.c, d.d)]
 
     def reassemble(self, like, differences):
-        return Quaternion(*[d.scalar_part() for d in differences])
+        return sympy.Quaternion(*[d.scalar_part() for d in differences])
 
     def report(self, value, simplifier, against=None):
         from gacalc.forms.report import QUATERNION_NOTE, VALUE, Report, ReportItem

@@ -105,6 +105,10 @@ class ListKind(ValueKind):
             out.extend(_kind(item).scalars(item))
         return out
 
+    def map_scalars(self, value, fn):
+        items = [_kind(item).map_scalars(item, fn) for item in value]
+        return None if any(item is None for item in items) else ValueList(items)
+
     def is_exact_constant(self, value) -> bool:
         return all(_kind(item).is_exact_constant(item) for item in value)
 
