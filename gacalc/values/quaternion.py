@@ -25,7 +25,7 @@ class QuaternionKind(ValueKind):
         return [value.a, value.b, value.c, value.d]
 
     def map_scalars(self, value, fn):
-        return Quaternion(*(fn(part) for part in self.scalars(value)))
+        return sympy.Quaternion(*(fn(part) for part in self.scalars(value)))
 
     def numeric(self, value, digits):
         from sympy import N
