@@ -427,7 +427,11 @@ class _Builder:
         # A A-bar = a + b I is central; no inverse where a^2 + b^2 = 0 (decided here under
         # the session's conditions, which the core does not see)
         central = x * x.conjugate()
-        d = s.scalar(central[0] ** 2 + central[7] ** 2)
+        # a^2 + b^2 in the coefficient domain: through sympy expressions this was most of
+        # the time of `show A B` (a degree-8 polynomial converted out and back)
+        squares = [c * c for c in (central.coefs()[0], central.coefs()[7]) if c is not None]
+        norm = None if not squares else squares[0] if len(squares) == 1 else squares[0] + squares[1]
+        d = s.mv(Multivector.from_coefs([norm] + [None] * 7))
         if s.zero(d) is True:
             self.add(MEASURES, "inverse", "none",
                      "not invertible: a^2 + b^2 = 0 where X*conjugate(X) = a + b*I")
