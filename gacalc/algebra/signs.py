@@ -38,13 +38,18 @@ def certified_sign(expr, max_bits: int = MAX_BITS):
             box = _enclose_at(expr, bits)
         except (_Unsupported, ZeroDivisionError, ValueError, TypeError, OverflowError):
             return None
-        if box is not None:
-            if box.a > 0:
-                return 1
-            if box.b < 0:
-                return -1
+        sign = _enclosure_sign(box)
+        if sign is not None:
+            return sign
         bits *= 2
     return None
+
+
+def _enclosure_sign(box):
+    """+1 or -1 when the interval lies on one side of zero, else None."""
+    if box is None:
+        return None
+    return 1 if box.a > 0 else -1 if box.b < 0 else None
 
 
 def is_certified_positive(expr) -> bool:
@@ -379,9 +384,8 @@ def _box_sign(expr, box):
             return None
         finally:
             iv.prec = old
-        if enclosure.a > 0:
-            return 1
-        if enclosure.b < 0:
-            return -1
+        sign = _enclosure_sign(enclosure)
+        if sign is not None:
+            return sign
         bits *= 2
     return None

@@ -426,11 +426,10 @@ class _Builder:
         x, s = self.x, self.s
         # A A-bar = a + b I is central; no inverse where a^2 + b^2 = 0 (decided here under
         # the session's conditions, which the core does not see)
-        central = x * x.conjugate()
         # a^2 + b^2 in the coefficient domain: through sympy expressions this was most of
         # the time of `show A B` (a degree-8 polynomial converted out and back)
-        squares = [c * c for c in (central.coefs()[0], central.coefs()[7]) if c is not None]
-        norm = None if not squares else squares[0] if len(squares) == 1 else squares[0] + squares[1]
+        squares = [c * c for c in x.central_norm() if c is not None]
+        norm = sum(squares[1:], squares[0]) if squares else None
         d = s.mv(Multivector.from_coefs([norm] + [None] * 7))
         if s.zero(d) is True:
             self.add(MEASURES, "inverse", "none",
