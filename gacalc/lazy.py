@@ -9,6 +9,7 @@ ask ``loaded("sympy")`` first: no sympy object can exist before sympy is importe
 
 from __future__ import annotations
 
+import gc
 import importlib
 import sys
 
@@ -79,3 +80,19 @@ def __getattr__(name):
     if name in _STAND_INS:
         return sys.modules.get(name) or _STAND_INS[name]
     raise AttributeError(f"module 'gacalc.lazy' has no attribute {name!r}")
+
+
+_frozen: set = set()
+
+
+def freeze_imported():
+    """Once sympy is imported, move every object alive now out of the cyclic collector's
+    sight (``gc.freeze``).  A library's objects live as long as the process, yet each full
+    collection walks all of them: with sympy loaded that is 20-35 ms, once every few
+    hundred statements of a script.  Frozen objects are still freed by reference
+    counting; only cyclic garbage among them is kept.  Cheap to call after every
+    statement: it acts once per library."""
+    for name in _MODULES:
+        if name not in _frozen and loaded(name):
+            _frozen.add(name)
+            gc.freeze()

@@ -116,11 +116,11 @@ def test_ctrl_c_while_reading_the_next_statement(monkeypatch):
     original = parser.parse_statement_tokens
     calls = []
 
-    def interrupted_parse(tokens, terminator):
+    def interrupted_parse(tokens, terminator, *rest):
         calls.append(tokens)
         if len(calls) == 2:
             raise KeyboardInterrupt
-        return original(tokens, terminator)
+        return original(tokens, terminator, *rest)
 
     monkeypatch.setattr(parser, "parse_statement_tokens", interrupted_parse)
     session = Session()
@@ -217,7 +217,7 @@ def test_a_parser_bug_is_an_internal_error_too(tmp_path, monkeypatch):
 
     monkeypatch.setenv("XDG_STATE_HOME", str(tmp_path))
 
-    def broken(tokens, terminator):
+    def broken(*args):
         raise IndexError("simulated parser bug")
 
     monkeypatch.setattr(parser, "parse_statement_tokens", broken)

@@ -23,6 +23,7 @@ only here; the rest of the language sees values through the public core API.
 from __future__ import annotations
 
 import math
+import operator
 import weakref
 from dataclasses import dataclass
 
@@ -72,23 +73,67 @@ def size_of(value) -> Size:
     coefs = getattr(value, "coefs", None)
     if coefs is None:
         return ZERO_SIZE
+    cache, key, known = _cached(value)
+    if known is not None:
+        return known
+    size = _measure(coefs())
+    _keep(cache, key, value, size)
+    return size
+
+
+def _keep(cache: dict, key, value, entry):
+    """cache[key] = (a weak reference to value, entry), dropped with the value."""
+    try:
+        reference = weakref.ref(value, lambda _, key=key, cache=cache: cache.pop(key, None))
+    except TypeError:            # a value kind without weak references: not kept
+        return
+    cache[key] = (reference, entry)
+
+
+_SIZES = "language.limits.sizes"
+
+
+def _cached(value):
+    """(the size cache, the value's key in it, its kept Size or None)."""
     from gacalc.algebra.context import current
 
     cache = current().store(_SIZES, dict)
     key = id(value)
     known = cache.get(key)
     if known is not None and known[0]() is value:
-        return known[1]
-    size = _measure(coefs())
-    try:
-        reference = weakref.ref(value, lambda _, key=key, cache=cache: cache.pop(key, None))
-    except TypeError:            # a value kind without weak references: not kept
-        return size
-    cache[key] = (reference, size)
-    return size
+        return cache, key, known[1]
+    return cache, key, None
 
 
-_SIZES = "language.limits.sizes"
+_height_bits = operator.methodcaller("height_bits")
+
+
+def _terms_and_bits(value):
+    """(terms, bits) of a multivector as ``_measure`` counts them, without reading degrees
+    and generators (two thirds of its cost), or None for a float expression.  Enough to
+    pass a product whose pair count is small: see ``check_product``."""
+    cache, key, known = _cached(value)
+    if known is not None:
+        return known.terms, known.bits
+    quick = cache.get((key,))             # kept like sizes (a declared M is read often)
+    if quick is not None and quick[0]() is value:
+        return quick[1]
+    terms = bits = 0
+    heights = []
+    for coef in value.coefs():
+        if coef is None:
+            continue
+        if coef.expr is not None:
+            return None
+        num, den = coef.num, coef.den
+        terms += len(num)
+        heights.extend(map(_height_bits, num.coeffs()))
+        if den is not None:
+            terms += len(den)
+            heights.extend(map(_height_bits, den.coeffs()))
+    result = terms, max(heights, default=0)
+    _keep(cache, (key,), value, result)
+    return result
 
 
 def _measure(coefs) -> Size:
@@ -211,11 +256,29 @@ def check_product(a, b, span: Span | None, what: str = "this product",
                   result_bound: bool = True) -> Size:
     """Refuse a product of two multivectors that would be too large or too slow.
     ``result_bound=False`` checks the work only (the caller has bounded the result)."""
+    if _surely_small(a, b):
+        return
     size, pairs = product_size(size_of(a), size_of(b))
     _check_work(pairs, span, what)
     if result_bound:
         check_size(size, span, what)
-    return size
+
+
+def _surely_small(a, b) -> bool:
+    """Whether the product passes check_product whatever the operands' degrees and
+    generators: its pair count is within MAX_TERMS (which bounds the result's terms and
+    the work) and the height bound product_size computes is within the limit.  Most
+    products of a script are so, and the check then costs a third of the full measure."""
+    if getattr(a, "coefs", None) is None or getattr(b, "coefs", None) is None:
+        return False
+    ta, tb = _terms_and_bits(a), _terms_and_bits(b)
+    if ta is None or tb is None:
+        return False
+    pairs = ta[0] * tb[0]
+    if not pairs:
+        return True                       # a zero operand: ZERO_SIZE, nothing to refuse
+    return (pairs <= MAX_TERMS and
+            ta[1] + tb[1] + math.log2(pairs) + 1 < MAX_COEFFICIENT_BITS)
 
 
 def _check_work(pairs: float, span: Span | None, what: str):

@@ -3,7 +3,7 @@
 A script's literal multivectors, ``((3/2)*e1 + (-7/4)*e2 + ...)``, would otherwise go
 through the general evaluator node by node: a Multivector, a size check and a product
 per term.  Here a subtree made only of numbers, blade names, negation, sums, products and
-division by a nonzero number is computed as eight Fractions and becomes one Multivector
+division by a nonzero number is computed as eight rationals and becomes one Multivector
 at the end (``Multivector.from_rationals``).  The arithmetic is exact, so the value is the
 one the general path computes.
 
@@ -16,8 +16,9 @@ and the evaluator takes the general path, which raises the errors with their pos
 from __future__ import annotations
 
 import re
-from fractions import Fraction
 from functools import lru_cache
+
+from flint import fmpq
 
 from gacalc.algebra import Multivector
 from gacalc.algebra.basis import PRODUCT_TABLE, basis_of_word
@@ -46,39 +47,12 @@ def _blade_components(name: str):
     return basis_of_word(tuple(int(ch) for ch in name[1:]))
 
 
-def literal_height(node, memo: dict) -> int:
-    """The height of a literal-shaped subtree (1 for a leaf), 0 when it is not one.
-
-    Shape only: numbers, blade names (and I), negation, sums and products.  Memoised by
-    node identity, so an evaluator asks about each node once."""
-    kind = type(node)
-    if kind is S.Number:                   # leaves: cheaper to look at than to remember
-        return 1
-    if kind is S.Name:
-        return _blade_like(node.name)
-    key = id(node)
-    height = memo.get(key)
-    if height is not None:
-        return height
-    if kind is S.Negate:
-        below = literal_height(node.operand, memo)
-        height = below + 1 if below else 0
-    elif kind is S.Sum or kind is S.Product:
-        height = 0
-        for child in node.terms if kind is S.Sum else node.factors:
-            below = 1 if type(child) is S.Number else literal_height(child, memo)
-            if not below:
-                height = 0
-                break
-            height = max(height, below + 1)
-    else:
-        height = 0
-    memo[key] = height
-    return height
-
-
 class _NotLiteral(Exception):
     """The subtree needs the general path after all (raised inside, never escapes)."""
+
+
+# memo entry of a node the general path must evaluate (or that failed here)
+_GENERAL = object()
 
 
 def evaluate_literal(node, frame, values: dict, dependence: dict, memo: dict,
@@ -87,54 +61,116 @@ def evaluate_literal(node, frame, values: dict, dependence: dict, memo: dict,
 
     ``frame``, ``values`` and ``dependence`` are what the evaluator looks names up in
     (a bound name is not a blade); ``depth`` is the evaluator's depth at ``node``, so
-    that a tree the general path would refuse as too deep is left to it."""
-    height = literal_height(node, memo)
-    if not height or depth + height - 1 > max_depth:
-        return None
-    try:
-        components = _value(node, frame or {}, values, dependence)
-    except _NotLiteral:
-        return None
+    that a tree the general path would refuse as too deep is left to it.  ``memo`` is the
+    evaluator's: a subtree that is not literal is marked so, and the literal children
+    computed before the failure are kept, so that the general path, which asks again
+    about each child (one level deeper), finds them computed: every node is read once.
+    Entries are keyed by node identity and depth and hold the node, so that no other node
+    can take its identity while the memo lives."""
+    known = memo.get((id(node), depth))
+    if known is not None:
+        components = known[1]
+        if components is _GENERAL:
+            return None
+    else:
+        try:
+            components = _value(node, frame or {}, values, dependence, memo, depth,
+                                max_depth)
+        except _NotLiteral:
+            return None
     dense = [0] * 8
     for position, x in components.items():
         dense[position] = x
     return Multivector.from_rationals(dense)
 
 
-# Values are sparse: {basis position: nonzero int or Fraction}; a literal term touches
-# one blade, so most operations see one entry.
-def _value(node, frame, values, dependence) -> dict:
+# Values are sparse: {basis position: nonzero int or flint fmpq}; a literal term touches
+# one blade, so most operations see one entry.  fmpq rather than Fraction: its arithmetic
+# runs in C, and the coefficient domain takes it as it is.
+def _value(node, frame, values, dependence, memo, depth, max_depth) -> dict:
+    if depth > max_depth:
+        raise _NotLiteral                  # the general path says "too deeply nested"
     kind = type(node)
     if kind is S.Number:
-        value = node.value
-        if value.denominator == 1:
-            value = value.numerator        # whole numbers as ints: cheaper arithmetic
-        return {0: value} if value else {}
+        return _number(node.value)
     if kind is S.Name:
-        name = node.name
-        if name in frame or name in values or name in dependence:
-            raise _NotLiteral
-        sign, position = _blade_components(name)
-        return {position: sign}
+        return _blade(node.name, frame, values, dependence)
     if kind is S.Negate:
-        return {k: -x for k, x in _value(node.operand, frame, values, dependence).items()}
+        try:
+            below = _value(node.operand, frame, values, dependence, memo, depth + 1,
+                           max_depth)
+        except _NotLiteral:
+            memo[id(node), depth] = (node, _GENERAL)
+            raise
+        return {k: -x for k, x in below.items()}
     if kind is S.Sum:
-        total = _value(node.terms[0], frame, values, dependence)
-        for sign, term in zip(node.signs[1:], node.terms[1:]):
-            for k, x in _value(term, frame, values, dependence).items():
-                if k in total:
-                    x = total[k] + x if sign > 0 else total[k] - x
-                    if x:
-                        total[k] = x
-                    else:
-                        del total[k]
+        children = node.terms
+    elif kind is S.Product:
+        children = node.factors
+        if len(children) == 2 and type(children[1]) is S.Name and node.ops[1] != "/" \
+                and depth < max_depth:
+            # a number times a blade, every term of a script's literals: at once
+            first = children[0]
+            try:
+                left = _number(first.value) if type(first) is S.Number else \
+                    _value(first, frame, values, dependence, memo, depth + 1, max_depth)
+                right = _blade(children[1].name, frame, values, dependence)
+            except _NotLiteral:
+                memo[id(node), depth] = (node, _GENERAL)
+                raise
+            return _product(left, right)
+    else:
+        raise _NotLiteral
+    parts = []
+    for child in children:
+        try:
+            parts.append(_value(child, frame, values, dependence, memo, depth + 1,
+                                max_depth))
+        except _NotLiteral:
+            memo[id(node), depth] = (node, _GENERAL)
+            for done, part in zip(children, parts):
+                memo[id(done), depth + 1] = (done, part)   # the general path asks again
+            raise
+    if kind is S.Sum:
+        return _sum(parts, node.signs)
+    return _chain(parts, node.ops)
+
+
+def _number(value) -> dict:
+    """A Number node's Fraction as sparse components."""
+    if value.denominator == 1:
+        value = value.numerator            # whole numbers as ints: cheaper arithmetic
+    else:
+        value = fmpq(value.numerator, value.denominator)
+    return {0: value} if value else {}
+
+
+def _blade(name, frame, values, dependence) -> dict:
+    if not _blade_like(name) or name in frame or name in values or name in dependence:
+        raise _NotLiteral
+    sign, position = _blade_components(name)
+    return {position: sign}
+
+
+def _sum(parts, signs) -> dict:
+    total = dict(parts[0])
+    for sign, part in zip(signs[1:], parts[1:]):
+        for k, x in part.items():
+            if k in total:
+                x = total[k] + x if sign > 0 else total[k] - x
+                if x:
+                    total[k] = x
                 else:
-                    total[k] = x if sign > 0 else -x
-        return total
-    # a product chain, left to right as the general path multiplies it
-    total = _value(node.factors[0], frame, values, dependence)
-    for op, factor in zip(node.ops[1:], node.factors[1:]):
-        value = _value(factor, frame, values, dependence)
+                    del total[k]
+            else:
+                total[k] = x if sign > 0 else -x
+    return total
+
+
+def _chain(parts, ops) -> dict:
+    """A product chain, left to right as the general path multiplies it."""
+    total = parts[0]
+    for op, value in zip(ops[1:], parts[1:]):
         if op == "/":
             divisor = value.get(0)
             if divisor is None or len(value) > 1:
@@ -146,16 +182,17 @@ def _value(node, frame, values, dependence) -> dict:
 
 
 def _quotient(x, divisor):
+    """x / divisor exactly (ints or fmpq; the quotient of two ints made an fmpq)."""
     if isinstance(x, int) and isinstance(divisor, int):
-        return Fraction(x, divisor)
-    return Fraction(x) / divisor
+        return fmpq(x, divisor)
+    return x / divisor
 
 
 def _bits(x) -> int:
     """flint's height_bits of a rational: bits of its numerator or denominator."""
     if isinstance(x, int):
-        return x.bit_length()
-    return max(x.numerator.bit_length(), x.denominator.bit_length())
+        return abs(x).bit_length()
+    return x.height_bits()
 
 
 def _height(components: dict) -> int:

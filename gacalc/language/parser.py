@@ -29,7 +29,7 @@ from gacalc.export import targets as export_targets
 from . import syntax as S
 from . import tokens as T
 from .errors import GacalcLimitError, GacalcSyntaxError, Source, Span
-from .scanner import Token, scan, token_error
+from .scanner import Token, scan_statements, token_error
 
 MAX_STATEMENT_CHARS = 200_000
 MAX_DEPTH = 100
@@ -934,10 +934,11 @@ def _integer_node(text: str, span: Span) -> S.Node:
     return S.Number(span, _fraction(text), text)
 
 
-def _check_tokens(tokens: list[Token], terminator: Token):
-    for token in tokens:
-        if token.kind in (T.ERROR, T.UNTERMINATED_STRING):
-            raise token_error(token)
+def _check_tokens(tokens: list[Token], terminator: Token, flawed: bool = True):
+    if flawed:           # the scanner says whether any token is a bad character
+        for token in tokens:
+            if token.kind in (T.ERROR, T.UNTERMINATED_STRING):
+                raise token_error(token)
     if tokens:
         length = tokens[-1].span.end - tokens[0].span.start
         if length > MAX_STATEMENT_CHARS:
@@ -947,23 +948,17 @@ def _check_tokens(tokens: list[Token], terminator: Token):
                                                tokens[0].span.end))
 
 
-def parse_statement_tokens(tokens: list[Token], terminator: Token) -> S.Statement:
-    _check_tokens(tokens, terminator)
+def parse_statement_tokens(tokens: list[Token], terminator: Token,
+                           flawed: bool = True) -> S.Statement:
+    _check_tokens(tokens, terminator, flawed)
     return _StatementParser(tokens, terminator).parse_statement()
 
 
 def iter_statements(source: Source) -> Iterator[S.Statement]:
     """Statements one at a time, so earlier ones can run before a later mistake."""
-    buffer: list[Token] = []
-    for token in scan(source):
-        if token.kind in _STATEMENT_END:
-            if buffer:
-                yield parse_statement_tokens(buffer, token)
-                buffer = []
-            if token.kind == T.EOF:
-                return
-        else:
-            buffer.append(token)
+    for tokens, terminator, flawed in scan_statements(source):
+        if tokens:
+            yield parse_statement_tokens(tokens, terminator, flawed)
 
 
 def parse(text: str, filename: str | None = None) -> list[S.Statement]:

@@ -53,8 +53,18 @@ class Token:
 
 @lru_cache(maxsize=1)
 def master_pattern() -> re.Pattern:
-    alternatives = "|".join(f"(?P<{kind}>{regex})" for kind, regex in T.token_patterns())
-    return re.compile(alternatives)
+    """All token patterns in priority order; ``match.lastgroup`` names the kind.
+
+    Each alternative is the pattern followed by an empty group named after its kind,
+    rather than the pattern inside the group: an alternative that starts with a literal
+    character or a character set lets the regex engine skip it at a glance when the text
+    does not start so, where a leading group has to be entered first (a third of the
+    scanner's regex time on a long script)."""
+    patterns = T.token_patterns()
+    for kind, regex in patterns:
+        if re.compile(regex).groups:      # lastgroup must be the kind's own empty group
+            raise ValueError(f"token pattern {kind} has a capturing group")
+    return re.compile("|".join(f"(?:{regex})(?P<{kind}>)" for kind, regex in patterns))
 
 
 _SUPERSCRIPT_TO_ASCII = str.maketrans(T.SUPERSCRIPT_DIGITS + T.SUPERSCRIPT_MINUS,
@@ -95,27 +105,37 @@ def raw_tokens(source: Source) -> Iterator[Token]:
         yield Token(kind, piece, _normalise(kind, piece), Span(source, start, end))
 
 
-def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
-    """Significant tokens of a program, ending with one EOF token."""
-    if isinstance(source, str):
-        source = Source(source, filename)
+_FLAWED = frozenset({T.ERROR, T.UNTERMINATED_STRING})
+
+
+def scan_statements(source: Source) -> Iterator[tuple[list[Token], Token, bool]]:
+    """The significant tokens a statement at a time: ``(tokens, terminator, flawed)``
+    for each NEWLINE, ';' or EOF that ends one (``tokens`` may be empty), the last
+    ending with EOF.  ``flawed``: some token is an ERROR or UNTERMINATED_STRING, for the
+    parser to report.  Handing the parser a statement's list at once, rather than a
+    token at a time, saves a generator step and a kind test per token of a script."""
     depth = 0
     brackets = 0          # open '[' (a ';' inside separates matrix rows)
     previous_kind = None
     comparing = False     # after assume/given, '<' and '>' compare: they open nothing
     trivia, newline, keyword, semicolon = T.TRIVIA_KINDS, T.NEWLINE, T.KEYWORD, T.SEMICOLON
     continuation, ascii_spelling = T.CONTINUATION_KINDS, _ASCII_SPELLING
-    number, name_kinds = T.NUMBER, T.NAME_KINDS
+    number, name_kinds, flaws = T.NUMBER, T.NAME_KINDS, _FLAWED
+    tokens: list[Token] = []
+    append = tokens.append
+    flawed = False
     # trivia is skipped before any token object is made: most of a script's matches are
     # spaces; the rest is raw_tokens' work inlined (this loop runs once per token)
     for match in master_pattern().finditer(source.text):
         kind = match.lastgroup
         if kind in trivia:
             continue
+        ends = False
         if kind == newline:
             if depth > 0 or previous_kind in continuation or previous_kind == newline:
                 continue      # inside brackets, after an operator; blank lines are one
             comparing = False
+            ends = True
         elif kind in _OPENERS:
             if not (comparing and kind == T.LANGLE):
                 depth += 1
@@ -130,6 +150,7 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
             else:
                 depth = 0     # a ';' ends a statement (unclosed brackets error)
                 comparing = False
+                ends = True
         piece = match.group()
         start, end = match.span()
         value = ascii_spelling.get(kind)
@@ -140,10 +161,28 @@ def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
                 value = _normalise(kind, piece)
                 if kind == keyword and value in T.COMPARISON_KEYWORDS:
                     comparing = True
+                elif kind in flaws:
+                    flawed = True
         previous_kind = kind
-        yield Token(kind, piece, value, Span(source, start, end))
+        token = Token(kind, piece, value, Span(source, start, end))
+        if ends:
+            yield tokens, token, flawed
+            tokens = []
+            append = tokens.append
+            flawed = False
+        else:
+            append(token)
     end = len(source.text)
-    yield Token(T.EOF, "", "", Span(source, end, end))
+    yield tokens, Token(T.EOF, "", "", Span(source, end, end)), flawed
+
+
+def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:
+    """Significant tokens of a program, ending with one EOF token."""
+    if isinstance(source, str):
+        source = Source(source, filename)
+    for tokens, terminator, _ in scan_statements(source):
+        yield from tokens
+        yield terminator
 
 
 def tokenize(text: str, filename: str | None = None) -> list[Token]:

@@ -26,6 +26,7 @@ from typing import Iterator
 
 from gacalc.algebra import AlgebraError
 from gacalc.algebra.context import INSTALLED, AlgebraContext, install_latex
+from gacalc.lazy import freeze_imported
 import gacalc.simplify  # noqa: F401  (installs the simplifier the algebra calls)
 from gacalc.textfiles import read_script
 
@@ -218,6 +219,7 @@ class Session(StatementExecutors, FileStatements):
                 yield _internal_error(error, _next_span(source, done))
                 return
             results = self._run_one(statement, context)
+            freeze_imported()
             done = statement.span.end
             yield from results
             if results and isinstance(results[-1], GacalcError):
