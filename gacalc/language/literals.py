@@ -114,9 +114,14 @@ def _value(node, frame, values, dependence, memo, depth, max_depth) -> dict:
             try:
                 left = _number(first.value) if type(first) is S.Number else \
                     _value(first, frame, values, dependence, memo, depth + 1, max_depth)
-                right = _blade(children[1].name, frame, values, dependence)
             except _NotLiteral:
                 memo[id(node), depth] = (node, _GENERAL)
+                raise
+            try:
+                right = _blade(children[1].name, frame, values, dependence)
+            except _NotLiteral:           # (literal) M: keep the literal for the general path
+                memo[id(node), depth] = (node, _GENERAL)
+                memo[id(first), depth + 1] = (first, left)
                 raise
             return _product(left, right)
     else:

@@ -113,9 +113,8 @@ class _StatementParser:
 
     def span_from(self, start: Token) -> Span:
         last = self.previous()
-        end = last.span.end if last is not None and last.span.end >= start.span.start \
-            else start.span.end
-        return Span(start.span.source, start.span.start, end)
+        end = last.end if last is not None and last.end >= start.start else start.end
+        return Span(start.source, start.start, end)
 
     def enter(self, token: Token):
         self.depth += 1
@@ -187,8 +186,7 @@ class _StatementParser:
             number = self.padded[position + 1]
             if number.kind == T.NUMBER and self.padded[position + 2].kind not in _AFTER_LEAF:
                 self.position = position + 2
-                span = start.span
-                return S.Negate(Span(span.source, span.start, number.span.end),
+                return S.Negate(Span(start.source, start.start, number.end),
                                 self._leaf(number))
         elif kind in _PAREN_KINDS:
             number = self._parenthesised_number(position)
@@ -257,7 +255,7 @@ class _StatementParser:
                 self.advance()
                 exponent = _integer_node(token.value, token.span)
                 node = S.Power(self.span_from(start), node, exponent)
-            elif token.kind == T.LBRACKET and token.span.start == self.previous().span.end:
+            elif token.kind == T.LBRACKET and token.start == self.previous().end:
                 # X[k] only written against its operand: "A [..." is not an index
                 node = self.parse_index(start, node)
             else:
@@ -357,11 +355,11 @@ class _StatementParser:
             return None                  # more inside, or a postfix operator after it
         node = self._leaf(numerator)
         first = minus or numerator
-        source = first.span.source
+        source = first.source
         if minus is not None:
-            node = S.Negate(Span(source, minus.span.start, numerator.span.end), node)
+            node = S.Negate(Span(source, minus.start, numerator.end), node)
         if denominator is not None:
-            node = S.Product(Span(source, first.span.start, denominator.span.end),
+            node = S.Product(Span(source, first.start, denominator.end),
                              [node, self._leaf(denominator)], ["", "/"])
         self.position = q + 1
         return node
@@ -940,7 +938,7 @@ def _check_tokens(tokens: list[Token], terminator: Token, flawed: bool = True):
             if token.kind in (T.ERROR, T.UNTERMINATED_STRING):
                 raise token_error(token)
     if tokens:
-        length = tokens[-1].span.end - tokens[0].span.start
+        length = tokens[-1].end - tokens[0].start
         if length > MAX_STATEMENT_CHARS:
             raise GacalcLimitError(
                 f"statement too long ({length} characters; the limit is "

@@ -20,24 +20,34 @@ from .errors import GacalcSyntaxError, Source, Span
 
 class Token:
     """One token: ``kind``, ``text`` (the characters as written), ``value`` (normalised:
-    Greek letters spelled out, superscripts as "-1", operators in their ASCII spelling)
-    and ``span``.  Immutable by convention; a slotted class because a script makes one per
-    token (equality and hashing as a frozen dataclass of the four fields)."""
+    Greek letters spelled out, superscripts as "-1", operators in their ASCII spelling),
+    its place ``source``, ``start``, ``end`` and the ``span`` made of them.  Immutable by
+    convention; a slotted class because a script makes one per token, and the Span only
+    on request (most tokens never need theirs).  Equality and hashing as a frozen
+    dataclass of (kind, text, value, span)."""
 
-    __slots__ = ("kind", "text", "value", "span")
+    __slots__ = ("kind", "text", "value", "source", "start", "end")
 
-    def __init__(self, kind: str, text: str, value: str, span: Span):
+    def __init__(self, kind: str, text: str, value: str, span: Span | Source,
+                 start: int | None = None, end: int | None = None):
         self.kind = kind
         self.text = text
         self.value = value
-        self.span = span
+        if start is None:                  # Token(kind, text, value, span)
+            self.source, self.start, self.end = span.source, span.start, span.end
+        else:                              # Token(kind, text, value, source, start, end)
+            self.source, self.start, self.end = span, start, end
+
+    @property
+    def span(self) -> Span:
+        return Span(self.source, self.start, self.end)
 
     @property
     def is_name(self) -> bool:
         return self.kind in T.NAME_KINDS
 
     def _fields(self):
-        return (self.kind, self.text, self.value, self.span)
+        return (self.kind, self.text, self.value, self.start, self.end)
 
     def __eq__(self, other):
         if other.__class__ is not Token:
@@ -65,6 +75,51 @@ def master_pattern() -> re.Pattern:
         if re.compile(regex).groups:      # lastgroup must be the kind's own empty group
             raise ValueError(f"token pattern {kind} has a capturing group")
     return re.compile("|".join(f"(?:{regex})(?P<{kind}>)" for kind, regex in patterns))
+
+
+@lru_cache(maxsize=1)
+def lexeme_pattern() -> re.Pattern:
+    """The same alternatives without groups: ``findall`` then returns the texts of the
+    matches (which tile the text) as plain strings, with no match object per token."""
+    return re.compile("|".join(f"(?:{regex})" for _, regex in T.token_patterns()))
+
+
+_CHUNK = 1 << 15
+
+
+def _pieces(text: str) -> Iterator[str]:
+    """The texts of the matches of lexeme_pattern, in order.  findall runs on chunks of
+    some 32 KB ending just after a line break (no token crosses one, and no pattern looks
+    past one), so a 2 MB input is neither one uninterruptible call nor one huge list."""
+    findall = lexeme_pattern().findall
+    position = 0
+    while position < len(text):
+        cut = text.find("\n", position + _CHUNK)
+        cut = len(text) if cut < 0 else cut + 1
+        yield from findall(text, position, cut)
+        position = cut
+
+
+# text of a token -> its kind.  A token's kind depends on its text alone, except for the
+# CONTEXTUAL_WORDS (classified where they stand); scripts repeat the same few texts.
+_KIND_OF_TEXT: dict[str, str] = {}
+_CONTEXTUAL = object()
+_KIND_CACHE_LIMIT = 20_000
+
+
+def _kind_of_text(text: str):
+    """The kind of a token written ``text`` wherever it stands, or _CONTEXTUAL."""
+    kind = _KIND_OF_TEXT.get(text)
+    if kind is None:
+        match = master_pattern().match(text)
+        if text in T.CONTEXTUAL_WORDS or match.end() != len(text):
+            kind = _CONTEXTUAL        # (a shorter match alone: a lookahead saw past it)
+        else:
+            kind = match.lastgroup
+        if len(_KIND_OF_TEXT) >= _KIND_CACHE_LIMIT:
+            _KIND_OF_TEXT.clear()     # a long session of ever new numbers and names
+        _KIND_OF_TEXT[text] = kind
+    return kind
 
 
 _SUPERSCRIPT_TO_ASCII = str.maketrans(T.SUPERSCRIPT_DIGITS + T.SUPERSCRIPT_MINUS,
@@ -102,7 +157,7 @@ def raw_tokens(source: Source) -> Iterator[Token]:
         kind = match.lastgroup
         piece = match.group()
         start, end = match.span()
-        yield Token(kind, piece, _normalise(kind, piece), Span(source, start, end))
+        yield Token(kind, piece, _normalise(kind, piece), source, start, end)
 
 
 _FLAWED = frozenset({T.ERROR, T.UNTERMINATED_STRING})
@@ -124,10 +179,18 @@ def scan_statements(source: Source) -> Iterator[tuple[list[Token], Token, bool]]
     tokens: list[Token] = []
     append = tokens.append
     flawed = False
-    # trivia is skipped before any token object is made: most of a script's matches are
-    # spaces; the rest is raw_tokens' work inlined (this loop runs once per token)
-    for match in master_pattern().finditer(source.text):
-        kind = match.lastgroup
+    text = source.text
+    kinds = _KIND_OF_TEXT
+    end = 0
+    # The texts of all matches come from findall at once; each one's kind from the table
+    # of texts seen before.  Trivia is skipped before any token object is made: most of
+    # a script's matches are spaces.  (This loop runs once per token of a script.)
+    for piece in _pieces(text):
+        start = end
+        end = start + len(piece)
+        kind = kinds.get(piece) or _kind_of_text(piece)
+        if kind is _CONTEXTUAL:
+            kind = master_pattern().match(text, start).lastgroup
         if kind in trivia:
             continue
         ends = False
@@ -151,8 +214,6 @@ def scan_statements(source: Source) -> Iterator[tuple[list[Token], Token, bool]]
                 depth = 0     # a ';' ends a statement (unclosed brackets error)
                 comparing = False
                 ends = True
-        piece = match.group()
-        start, end = match.span()
         value = ascii_spelling.get(kind)
         if value is None:
             if kind == number or (kind in name_kinds and piece.isascii()):
@@ -164,7 +225,7 @@ def scan_statements(source: Source) -> Iterator[tuple[list[Token], Token, bool]]
                 elif kind in flaws:
                     flawed = True
         previous_kind = kind
-        token = Token(kind, piece, value, Span(source, start, end))
+        token = Token(kind, piece, value, source, start, end)
         if ends:
             yield tokens, token, flawed
             tokens = []
@@ -172,8 +233,8 @@ def scan_statements(source: Source) -> Iterator[tuple[list[Token], Token, bool]]
             flawed = False
         else:
             append(token)
-    end = len(source.text)
-    yield tokens, Token(T.EOF, "", "", Span(source, end, end)), flawed
+    end = len(text)
+    yield tokens, Token(T.EOF, "", "", source, end, end), flawed
 
 
 def scan(source: Source | str, filename: str | None = None) -> Iterator[Token]:

@@ -105,6 +105,11 @@ OPERATOR_SPELLINGS: dict[str, tuple[str, ...]] = {
     SEMICOLON: (";", ";"),
 }
 
+# Words whose kind depends on the text after them (the one lookahead of the table that
+# looks past a token's end): "rotor R" declares, "rotor(a, b)" calls.  The scanner
+# classifies every other token by its text alone.
+CONTEXTUAL_WORDS = frozenset({"rotor"})
+
 # Reserved words: never names.
 KEYWORDS = ("check", "given", "assume", "show", "against", "emit", "as", "to",
             "use", "save", "help", "formula", "draw", "budget")
@@ -185,8 +190,8 @@ def token_patterns() -> list[tuple[str, str]]:
         (SUPERSCRIPT, superscripts),
         (KEYWORD, _words(KEYWORDS)),
         # "rotor" is also a function: a declaration only when a name follows ("rotor R").
-        (DECLARATION, _words(k for k in DECLARATION_KINDS if k != "rotor")
-         + f"|rotor(?=[ \\t]+{_LETTER})"),
+        (DECLARATION, _words(k for k in DECLARATION_KINDS if k not in CONTEXTUAL_WORDS)
+         + "".join(f"|{word}(?=[ \\t]+{_LETTER})" for word in sorted(CONTEXTUAL_WORDS))),
         (BLADE, "e[1-3]+" + _WORD_END),
         (CONSTANT, _words(CONSTANTS)),
         (BUILTIN, _words(builtin_function_names())),
