@@ -122,6 +122,26 @@ class Coef:
         return coef
 
     @staticmethod
+    def constants(values) -> list:
+        """Coef.constant of each value, None for a zero one: the registry looked up once
+        (a literal's eight components)."""
+        make = registry().constant
+        out = []
+        for value in values:
+            if not value:
+                out.append(None)
+                continue
+            if isinstance(value, Fraction):
+                value = flint.fmpq(value.numerator, value.denominator)
+            elif not isinstance(value, (int, flint.fmpq)):
+                out.append(Coef.constant(value))
+                continue
+            coef = Coef(make(value))
+            coef._rational = True
+            out.append(coef)
+        return out
+
+    @staticmethod
     def _ratio(num, den) -> "Coef":
         """num/den in lowest terms with a monic denominator; ZeroDivisionError on den = 0."""
         if den.is_zero():

@@ -92,7 +92,7 @@ class Multivector:
         eight, the missing ones zero), zeros dropped: the literal path of the language,
         which computes number-and-blade sums exactly in fractions, builds its value here
         without going through sympy."""
-        c = [Coef.constant(v) if v else None for v in values]
+        c = Coef.constants(values)
         if len(c) > 8:
             raise ValueError("a multivector of Cl(3,0) has eight components")
         mv = cls.__new__(cls)

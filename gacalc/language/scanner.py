@@ -87,16 +87,17 @@ def lexeme_pattern() -> re.Pattern:
 _CHUNK = 1 << 15
 
 
-def _pieces(text: str) -> Iterator[str]:
-    """The texts of the matches of lexeme_pattern, in order.  findall runs on chunks of
-    some 32 KB ending just after a line break (no token crosses one, and no pattern looks
-    past one), so a 2 MB input is neither one uninterruptible call nor one huge list."""
+def _chunks(text: str) -> Iterator[list[str]]:
+    """The texts of the matches of lexeme_pattern, in order, a list per chunk: findall
+    runs on chunks of some 32 KB ending just after a line break (no token crosses one,
+    and no pattern looks past one), so a 2 MB input is neither one uninterruptible call
+    nor one huge list."""
     findall = lexeme_pattern().findall
     position = 0
     while position < len(text):
         cut = text.find("\n", position + _CHUNK)
         cut = len(text) if cut < 0 else cut + 1
-        yield from findall(text, position, cut)
+        yield findall(text, position, cut)
         position = cut
 
 
@@ -185,54 +186,55 @@ def scan_statements(source: Source) -> Iterator[tuple[list[Token], Token, bool]]
     # The texts of all matches come from findall at once; each one's kind from the table
     # of texts seen before.  Trivia is skipped before any token object is made: most of
     # a script's matches are spaces.  (This loop runs once per token of a script.)
-    for piece in _pieces(text):
-        start = end
-        end = start + len(piece)
-        kind = kinds.get(piece) or _kind_of_text(piece)
-        if kind is _CONTEXTUAL:
-            kind = master_pattern().match(text, start).lastgroup
-        if kind in trivia:
-            continue
-        ends = False
-        if kind == newline:
-            if depth > 0 or previous_kind in continuation or previous_kind == newline:
-                continue      # inside brackets, after an operator; blank lines are one
-            comparing = False
-            ends = True
-        elif kind in _OPENERS:
-            if not (comparing and kind == T.LANGLE):
-                depth += 1
-                brackets += kind == T.LBRACKET
-        elif kind in _CLOSERS:
-            if not (comparing and kind == T.RANGLE):
-                depth = max(0, depth - 1)
-                brackets = max(0, brackets - (kind == T.RBRACKET))
-        elif kind == semicolon:
-            if brackets > 0:
-                kind = T.ROWSEP
-            else:
-                depth = 0     # a ';' ends a statement (unclosed brackets error)
+    for pieces in _chunks(text):
+        for piece in pieces:
+            start = end
+            end = start + len(piece)
+            kind = kinds.get(piece) or _kind_of_text(piece)
+            if kind is _CONTEXTUAL:
+                kind = master_pattern().match(text, start).lastgroup
+            if kind in trivia:
+                continue
+            ends = False
+            if kind == newline:
+                if depth > 0 or previous_kind in continuation or previous_kind == newline:
+                    continue      # inside brackets, after an operator; blank lines are one
                 comparing = False
                 ends = True
-        value = ascii_spelling.get(kind)
-        if value is None:
-            if kind == number or (kind in name_kinds and piece.isascii()):
-                value = piece             # _normalise's answer for most remaining tokens
+            elif kind in _OPENERS:
+                if not (comparing and kind == T.LANGLE):
+                    depth += 1
+                    brackets += kind == T.LBRACKET
+            elif kind in _CLOSERS:
+                if not (comparing and kind == T.RANGLE):
+                    depth = max(0, depth - 1)
+                    brackets = max(0, brackets - (kind == T.RBRACKET))
+            elif kind == semicolon:
+                if brackets > 0:
+                    kind = T.ROWSEP
+                else:
+                    depth = 0     # a ';' ends a statement (unclosed brackets error)
+                    comparing = False
+                    ends = True
+            value = ascii_spelling.get(kind)
+            if value is None:
+                if kind == number or (kind in name_kinds and piece.isascii()):
+                    value = piece         # _normalise's answer for most other tokens
+                else:
+                    value = _normalise(kind, piece)
+                    if kind == keyword and value in T.COMPARISON_KEYWORDS:
+                        comparing = True
+                    elif kind in flaws:
+                        flawed = True
+            previous_kind = kind
+            token = Token(kind, piece, value, source, start, end)
+            if ends:
+                yield tokens, token, flawed
+                tokens = []
+                append = tokens.append
+                flawed = False
             else:
-                value = _normalise(kind, piece)
-                if kind == keyword and value in T.COMPARISON_KEYWORDS:
-                    comparing = True
-                elif kind in flaws:
-                    flawed = True
-        previous_kind = kind
-        token = Token(kind, piece, value, source, start, end)
-        if ends:
-            yield tokens, token, flawed
-            tokens = []
-            append = tokens.append
-            flawed = False
-        else:
-            append(token)
+                append(token)
     end = len(text)
     yield tokens, Token(T.EOF, "", "", source, end, end), flawed
 
