@@ -244,6 +244,10 @@ class Coef:
         return Coef(-self.num, self.den)
 
     def __sub__(self, other: "Coef") -> "Coef":
+        if self.den is None and other.den is None and self.expr is None and \
+                other.expr is None:
+            n1, n2 = _both_parts(self, other)
+            return Coef(n1[0] - n2[0])      # polynomials: one subtraction, no negation
         return self + (-other)
 
     def __mul__(self, other: "Coef") -> "Coef":

@@ -83,7 +83,7 @@ class Multivector:
     def from_coefs(cls, coefs) -> "Multivector":
         """The multivector of eight domain coefficients (None or Coef each), zeros dropped."""
         mv = cls.__new__(cls)
-        mv._c = tuple(None if (x is None or x.is_zero()) else x for x in coefs)
+        mv._c = tuple([None if (x is None or x.is_zero()) else x for x in coefs])
         return mv
 
     @classmethod
@@ -191,13 +191,13 @@ class Multivector:
         if other is NotImplemented:
             return other
         return Multivector.from_coefs(
-            b if a is None else (a if b is None else a + b) for a, b in zip(self._c, other._c)
+            [b if a is None else (a if b is None else a + b) for a, b in zip(self._c, other._c)]
         )
 
     __radd__ = __add__
 
     def __neg__(self):
-        return Multivector.from_coefs(None if a is None else -a for a in self._c)
+        return Multivector.from_coefs([None if a is None else -a for a in self._c])
 
     def __pos__(self):
         return self
@@ -206,7 +206,11 @@ class Multivector:
         other = _coerce(other)
         if other is NotImplemented:
             return other
-        return self + (-other)
+        # componentwise, without negating the whole of other first (a check's L - R)
+        return Multivector.from_coefs(
+            [(None if b is None else -b) if a is None else (a if b is None else a - b)
+             for a, b in zip(self._c, other._c)]
+        )
 
     def __rsub__(self, other):
         other = _coerce(other)

@@ -127,7 +127,7 @@ class Evaluator:
         self.matrix_depth = 0     # inside [ ]: i is the complex unit
         self.depth = 0
         self.clock = clock
-        self.literal_shapes: dict = {}     # node id -> literal height (literals.py)
+        self.literal_shapes: dict = {}     # (node id, depth) -> literal or mark (literals.py)
 
     # Notes ----------------------------------------------------------------------
     def note(self, text: str, span: Span | None = None):

@@ -253,7 +253,7 @@ def check_size(size: Size, span: Span | None, what: str = "the result"):
 
 
 def check_product(a, b, span: Span | None, what: str = "this product",
-                  result_bound: bool = True) -> Size:
+                  result_bound: bool = True) -> None:
     """Refuse a product of two multivectors that would be too large or too slow.
     ``result_bound=False`` checks the work only (the caller has bounded the result)."""
     if _surely_small(a, b):

@@ -1,4 +1,4 @@
-"""Rational literals evaluated in plain fractions: numbers times blades, and sums of them.
+"""Rational literals evaluated in exact rationals: numbers times blades, and sums of them.
 
 A script's literal multivectors, ``((3/2)*e1 + (-7/4)*e2 + ...)``, would otherwise go
 through the general evaluator node by node: a Multivector, a size check and a product
