@@ -186,6 +186,21 @@ def test_errors_and_limits_in_literals_are_unchanged(text, monkeypatch):
         assert fast[1] == general[1]
 
 
+@pytest.mark.parametrize("text", [
+    # a function body holds literals next to its parameter; it is evaluated again at other
+    # depths and with other arguments, and the memo of one evaluation must not leak
+    "g(x) = (1/2)*e1 x + (3/4) + x (1/3)*e2; x = g(g(g(e3))) + g(2)",
+    "h(s, t) = ((1/2) + (2/3)*e12) s ((1/2) - (2/3)*e12) + t (5/7)*e3; x = h(h(e1, 1), e2)",
+    # the same literal beside symbols, several times in one statement
+    "vector a; x = ((1/2) + (1/3)*e1) a + ((1/2) + (1/3)*e1) - a ((1/2) + (1/3)*e1)",
+])
+def test_literals_inside_functions_and_beside_symbols_match_the_general_path(text, monkeypatch):
+    fast = _outcome(text, True, monkeypatch)
+    general = _outcome(text, False, monkeypatch)
+    assert fast[0] == general[0] == "value", (fast, general)
+    assert fast[1].identical(general[1])
+
+
 def test_a_bound_name_is_not_read_as_a_blade(monkeypatch):
     # a function parameter or session value never shadows a blade in the language (the
     # names are refused), but the literal path still leaves bound names to the lookup
@@ -264,6 +279,22 @@ def test_scanner_matches_the_token_by_token_reading_across_chunks():
     source = Source("\n".join(lines))
     assert [(t.kind, t.text, t.value, t.start, t.end) for t in scan(source)] == \
         [(t.kind, t.text, t.value, t.start, t.end) for t in _reference_scan(source)]
+
+
+def test_the_table_of_token_kinds_refills_after_it_is_cleared(monkeypatch):
+    # the scanner keeps the kind of each token text in a bounded table, cleared when
+    # full: a long session reads every text as a fresh one does, across the clearing
+    from gacalc.language import scanner as scanner_module
+
+    monkeypatch.setattr(scanner_module, "_KIND_CACHE_LIMIT", 5)
+    scanner_module._KIND_OF_TEXT.clear()
+    rng = random.Random(3)
+    for _ in range(20):
+        text = "".join(rng.choice(_PIECES) + rng.choice(["", " "]) for _ in range(30))
+        source = Source(text)
+        assert [(t.kind, t.text, t.value, t.start, t.end) for t in scan(source)] == \
+            [(t.kind, t.text, t.value, t.start, t.end) for t in _reference_scan(source)]
+        assert len(scanner_module._KIND_OF_TEXT) <= 5
 
 
 def test_source_line_starts():
