@@ -105,3 +105,55 @@ def test_the_sign_line_appears_only_when_proved(session):
     assert text.startswith("FAILED") and "differ only in sign" not in text
     # a check that holds says nothing of the kind
     assert "sign" not in _render(session, "check S == S")
+
+
+# unit quaternions with rational components (2^2 + 3^2 + 6^2 = 7^2, 3^2 + 4^2 = 5^2)
+_QUATERNIONS = [(1, 1, 1, 1, 2), (3, 4, 0, 0, 5), (0, 2, 3, 6, 7), (2, 0, -6, 3, 7)]
+
+
+@pytest.mark.parametrize("w, x, y, z, d", _QUATERNIONS)
+def test_a_unit_quaternion_and_its_negative_are_one_rotation(session, w, x, y, z, d):
+    q = f"quaternion({w}/{d}, {x}/{d}, {y}/{d}, {z}/{d})"
+    minus = f"quaternion({-w}/{d}, {-x}/{d}, {-y}/{d}, {-z}/{d})"
+    result = ok(session, f"check {q} == {minus} as rotation")[-1]
+    assert result.outcome == "holds" and result.note == "L = -R"
+    assert ok(session, f"check {q} == {q} as rotation")[-1].note == "L = R"
+    # a quaternion against the rotor it stands for (from_quaternion), and its negative
+    assert ok(session, f"check {q} == -from_quaternion({q}) as rotation")[-1].note == "L = -R"
+    # scipy's Rotation (scalar-last quaternions) agrees: q and -q give one matrix
+    first = Rotation.from_quat([x / d, y / d, z / d, w / d]).as_matrix()
+    second = Rotation.from_quat([-x / d, -y / d, -z / d, -w / d]).as_matrix()
+    assert np.allclose(first, second)
+
+
+def test_different_quaternions_fail_as_scipy_says(session):
+    (w1, x1, y1, z1, d1), (w2, x2, y2, z2, d2) = _QUATERNIONS[1], _QUATERNIONS[2]
+    text = (f"check quaternion({w1}/{d1}, {x1}/{d1}, {y1}/{d1}, {z1}/{d1}) == "
+            f"quaternion({w2}/{d2}, {x2}/{d2}, {y2}/{d2}, {z2}/{d2}) as rotation")
+    assert ok(session, text)[-1].outcome == "fails"
+    first = Rotation.from_quat([x1 / d1, y1 / d1, z1 / d1, w1 / d1]).as_matrix()
+    second = Rotation.from_quat([x2 / d2, y2 / d2, z2 / d2, w2 / d2]).as_matrix()
+    assert not np.allclose(first, second)
+
+
+def test_a_turn_by_two_pi_more_as_quaternions(session):
+    # q(t + 2 pi) = -q(t) (common practice): one rotation, and the plain check fails
+    text = "check quaternion(rotor(n, t + 2 pi)) == quaternion(rotor(n, t)) as rotation"
+    assert ok(session, text)[-1].note == "L = -R"
+    plain = "check quaternion(rotor(n, t + 2 pi)) == quaternion(rotor(n, t))"
+    result = ok(session, plain)[-1]
+    assert result.outcome == "fails"
+    assert result.render().endswith(
+        "\n  L == -R: the two sides differ only in sign"
+        "\n  for unit quaternions, 'check L == R as rotation' compares the rotations")
+
+
+@pytest.mark.parametrize("text, message", [
+    ("check quaternion(1 + e12) == 1 as rotation",
+     "'as rotation' compares rotations; L is not a unit quaternion (divide by its norm first)"),
+    ("check 1 == quaternion(0, 0, 0, 0) as rotation",
+     "'as rotation' compares rotations; R is the zero quaternion"),
+])
+def test_quaternions_that_are_not_rotations_are_refused_in_one_line(session, text, message):
+    error = session.run(text)[-1]
+    assert isinstance(error, GacalcError) and error.message == message

@@ -48,7 +48,8 @@ HELP_TOPICS: dict[str, tuple[str, str]] = {
               "  example: vector a, b; check a b == a . b + a /\\ b\n"
               "check L == R as rotation [given C = D, ...]\n"
               "  rotors L and R are the same rotation: L R~ is 1 or -1 (R and -R turn\n"
-              "  every vector alike); says which sign it found; refuses other values\n"
+              "  every vector alike); says which sign it found; unit quaternions are\n"
+              "  compared through their rotors (q and -q); refuses other values\n"
               "  example: check rotor(e12, t + 2 pi) == rotor(e12, t) as rotation"),
     "given": ("side conditions of one check", "check L == R given C = D, E = F\n"
               "  example: vector a, b; check (a + b)^2 == a^2 + b^2 given a . b = 0"),

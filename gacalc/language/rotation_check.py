@@ -5,6 +5,9 @@ For rotors L and R, L x L~ = R x R~ for all x holds exactly when D = L R~ commut
 every vector; D is even, so it is then a scalar with D D~ = 1: D = 1, D = -1, or a
 scalar whose square is 1 (a sign that depends on the symbols).  The check proves which.
 
+A unit quaternion stands for the same rotation as its rotor (q and -q as R and -R), so a
+side that is a quaternion is compared through ``from_quaternion``.
+
 Also here: the line a failed plain check adds when its sides differ only in sign.
 """
 
@@ -18,11 +21,37 @@ from .errors import GacalcTypeError
 from .evaluator import is_multivector, relevant_conditions
 
 
-def _require_rotor(executor, value, side: str, node, exprs):
+def _as_rotor(value):
+    """A quaternion's even multivector (Hamilton's convention, as from_quaternion), or the
+    value unchanged; and whether it was a quaternion."""
+    from gacalc.values import kind_of
+
+    kind = kind_of(value)
+    if kind is not None and kind.name == "quaternion":
+        from gacalc.algebra.representations import from_quaternion
+
+        return from_quaternion(value), True
+    return value, False
+
+
+def _require_rotor(executor, value, side: str, node, exprs, quaternion: bool = False):
     """A one-line error unless the value is a rotor (even, R R~ = 1) under the conditions."""
     from gacalc.simplify import is_zero
 
     span = node.span
+    if quaternion and value.is_zero():
+        raise GacalcTypeError(f"'as rotation' compares rotations; {side} is the zero "
+                              "quaternion", span)
+    if quaternion:
+        unit = is_zero(value * value.rev() - Multivector.scalar(1), exprs,
+                       executor._simplify_budget())
+        if unit is False:
+            raise GacalcTypeError(f"'as rotation' compares rotations; {side} is not a unit "
+                                  "quaternion (divide by its norm first)", span)
+        if unit is None:
+            raise GacalcTypeError(f"'as rotation' compares rotations; could not prove that "
+                                  f"{side} is a unit quaternion", span)
+        return
     if not is_multivector(value):
         raise GacalcTypeError(f"'as rotation' compares rotors; {side} is "
                               f"{describe(value)}, not a rotor", span)
@@ -48,10 +77,11 @@ def check_as_rotation(executor, statement, state, results, given, left, right):
 
     from .results import CheckResult
 
+    (left, left_quaternion), (right, right_quaternion) = _as_rotor(left), _as_rotor(right)
     conditions = relevant_conditions(state.conditions() + given, [left, right])
     exprs = [c.expr for c in conditions]
-    _require_rotor(executor, left, "L", statement.left, exprs)
-    _require_rotor(executor, right, "R", statement.right, exprs)
+    _require_rotor(executor, left, "L", statement.left, exprs, left_quaternion)
+    _require_rotor(executor, right, "R", statement.right, exprs, right_quaternion)
     product = left * right.rev()           # L R^-1, R~ being the inverse of a rotor
     budget = executor._simplify_budget
     scalar, one = product.grade(0), Multivector.scalar(1)
@@ -86,11 +116,14 @@ def sign_only_note(executor, left, right, exprs) -> str:
     sign), with the hint for rotors; '' otherwise."""
     from gacalc.simplify import is_zero
 
+    (left, left_quaternion), (right, right_quaternion) = _as_rotor(left), _as_rotor(right)
     if not (is_multivector(left) and is_multivector(right)):
         return ""
     if is_zero(left + right, exprs, executor._simplify_budget()) is not True:
         return ""
     note = "L == -R: the two sides differ only in sign"
-    if left.grades() <= {0, 2}:
+    if left_quaternion and right_quaternion:
+        note += "\nfor unit quaternions, 'check L == R as rotation' compares the rotations"
+    elif left.grades() <= {0, 2}:
         note += "\nfor rotors, 'check L == R as rotation' compares the rotations"
     return note
