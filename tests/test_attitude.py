@@ -281,10 +281,33 @@ def test_symbolic_rotation_vector_both_ways():
                "rotor(e12, c)")
 
 
+def test_rotation_vector_about_a_symbolic_axis_is_the_angle_times_the_axis():
+    # rotor(n, t) for unit n and t in (-pi, pi) has rotation vector t n (common practice):
+    # read through the common factor sin(t/2) of the bivector, with no |v| left over
+    s = Session()
+    ok(s, "scalar t in (-pi, pi)\nvector n unit")
+    t = sympy.Symbol("t", real=True)
+    n = [sympy.Symbol(f"n{k}", real=True) for k in (1, 2, 3)]
+    assert value(s, "rotation_vector(rotor(n, t))") == Multivector(
+        {k: t * n[k - 1] for k in (1, 2, 3)})
+    # an axis with rational components: its norm comes out of the factor
+    assert value(s, "rotation_vector(rotor((3/5) e1 + (4/5) e2, t))") == Multivector(
+        {1: 3 * t / 5, 2: 4 * t / 5})
+    results(s, "check from_rotation_vector(rotation_vector(rotor(n, t))) == rotor(n, t)")
+    # numerically at a point, against scipy's rotation vector of the same quaternion
+    got = value(s, "subs(rotation_vector(rotor(n, t)), t, 5/2, n1, 2/7, n2, 3/7, n3, 6/7)")
+    half = 1.25
+    quat = [np.sin(half) * 2 / 7, np.sin(half) * 3 / 7, np.sin(half) * 6 / 7, np.cos(half)]
+    expected = Rotation.from_quat(quat).as_rotvec()
+    assert np.allclose([float(got[k]) for k in (1, 2, 3)], expected)
+    assert np.allclose(expected, 2.5 * np.array([2, 3, 6]) / 7)
+
+
 def test_rotation_vector_of_unknown_sign_says_what_it_assumes():
     s = Session()
     found = results(s, "rotation_vector(rotor(e12, a))")
     assert "holds where R0 != 0" in notes(found)
+    assert "'scalar a in (-pi, pi)'" in notes(found)
 
 
 # -- the language: words, errors, printing ------------------------------------------------------

@@ -257,14 +257,38 @@ def rotation_vector(R, conditions=()) -> RotationVector:
         theta = 2 * sympy.atan2(y, c) if sign is not None else 2 * sympy.atan(y / c)
         result = Multivector({k: theta})
     else:
-        size = sympy.sqrt(simplified_scalar(v.norm2(), conditions))
+        # v = s u with u a unit vector (rotor(n, t): s = sin(t/2), u = n): then
+        # theta n = 2 atan2(s, c) u, whatever the sign of s, and no |v| appears
+        size, axis = _unit_factor(v, conditions)
         half = sympy.atan2(size, c) if sign is not None else sympy.atan(size / c)
-        result = v.scale(2 * half / size)
+        result = axis.scale(2 * half)
     if sign is None:
         note = ("rotation_vector holds where R0 != 0 (a half turn has two opposite "
                 "rotation vectors)")
+        symbols = sorted(c.free_symbols, key=str)
+        if len(symbols) == 1:       # rotor(n, t): with t's range known, theta is t itself
+            note += (f"; with a range such as 'scalar {symbols[0]} in (-pi, pi)' the angle "
+                     "reads back as itself")
     result = result.map_coefficients(lambda e: simplified_scalar(e, conditions))
     return RotationVector(result, note)
+
+
+def _unit_factor(v, conditions):
+    """(s, u) with v = s u and u u = 1: the common factor of v's components when what
+    remains is a unit vector under the conditions (sin(t/2) n1, sin(t/2) n2, ... with n
+    unit) or a constant multiple of one, otherwise |v| and v/|v|."""
+    common = sympy.gcd_terms(sympy.Add(*(v[k] for k in (1, 2, 3))), fraction=False)
+    factor = sympy.Mul(*[f for f in sympy.Mul.make_args(common) if not f.is_Add])
+    if factor != 1:
+        axis = v.map_coefficients(lambda e: sympy.cancel(e / factor))
+        square = simplified_scalar(axis.norm2(), conditions)
+        if _vanishes(square - 1, conditions) is True:
+            return factor, axis
+        if square.is_number and square.is_positive:      # (3 e1 + 4 e2) sin(t/2)/5
+            root = sympy.sqrt(square)
+            return factor * root, axis.scale(1 / root)
+    size = sympy.sqrt(simplified_scalar(v.norm2(), conditions))
+    return size, v.scale(1 / size)
 
 
 def _sign_of(c, conditions):
