@@ -104,3 +104,18 @@ def test_a_spent_budget_runs_out_even_under_an_outer_alarm():
         with pytest.raises(BudgetExceeded):
             with time_limit(Budget(0.0)):
                 pass
+
+
+@pytest.mark.parametrize("out_of_time", [True, False])
+def test_an_undecided_kind_says_when_the_budget_ran_out(monkeypatch, out_of_time):
+    # the report's zero tests undecided: the kind line names the budget only when it ran out
+    import gacalc.simplify as simplify_module
+    from gacalc.simplify.decision import OUT_OF_TIME, undecided
+
+    s = Session()
+    s.run("scalar t\nvector n unit\nR = rotor(n, t)")
+    monkeypatch.setattr(simplify_module, "decide", lambda *args, **kwargs: (
+        OUT_OF_TIME if out_of_time else undecided("the method's limit")))
+    item = _show(s, "show R").report.item("kind")
+    assert item.value == "undecided"
+    assert ("within the report's time budget" in item.note) == out_of_time

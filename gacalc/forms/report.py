@@ -171,12 +171,18 @@ class _Simplifier:
 
     def zero(self, x) -> bool | None:
         """True / False / None: does x (Multivector or Expr) vanish under the conditions?"""
-        from gacalc.simplify import is_zero
+        return self.zero_decision(x).verdict
+
+    def zero_decision(self, x):
+        """The same with its grounds (gacalc.simplify.decision.Decision: out_of_time says
+        whether the budget ran out)."""
+        from gacalc.simplify import decide
+        from gacalc.simplify.decision import ZERO
 
         mv = x if isinstance(x, Multivector) else Multivector({0: x})
         if mv.is_zero():
-            return True
-        return is_zero(mv, self.conditions, budget=self.budget())
+            return ZERO
+        return decide(mv, self.conditions, budget=self.budget())
 
     def sqrt(self, e):
         return sympy.sqrt(self.scalar(e))
@@ -277,6 +283,7 @@ def _grade_name(b: Multivector) -> str:
 class _Parts:
     present: tuple        # grades whose part does not vanish (or might not)
     undecided: tuple      # grades whose vanishing could not be decided
+    out_of_time: bool = False    # some of them because the time budget ran out
 
 
 # Per label: the statement that computes an omitted form by itself ({} is the source).
@@ -412,15 +419,16 @@ class _Builder:
         self.add(MEASURES, "dual", x.dual(), "X I^-1")
 
     def _parts(self) -> _Parts:
-        present, undecided = [], []
+        present, undecided, out_of_time = [], [], False
         for k in sorted(self.x.grades()):
-            verdict = self.s.zero(self.x.grade(k))
-            if verdict is True:
+            decision = self.s.zero_decision(self.x.grade(k))
+            if decision.verdict is True:
                 continue
             present.append(k)
-            if verdict is None:
+            if decision.verdict is None:
                 undecided.append(k)
-        return _Parts(tuple(present), tuple(undecided))
+                out_of_time = out_of_time or decision.out_of_time
+        return _Parts(tuple(present), tuple(undecided), out_of_time)
 
     def _inverse(self):
         x, s = self.x, self.s
@@ -454,7 +462,8 @@ class _Builder:
         if parts.undecided:
             self.add(KIND, "kind", "undecided",
                      "whether the grade " + ", ".join(map(str, parts.undecided))
-                     + " part vanishes could not be decided")
+                     + " part vanishes could not be decided"
+                     + (" within the report's time budget" if parts.out_of_time else ""))
             return "undecided"
         if not present:
             self.add(KIND, "kind", "zero")
