@@ -175,3 +175,29 @@ def test_ranges_are_listed_saved_and_dropped(tmp_path):
     assert _check(again, "check abs(t) == t") == "holds"
     ok(session, "assume none")
     assert _check(session, "check abs(a) == a") == "holds"    # the declaration's range stays
+
+
+def test_equations_and_ranges_on_separate_symbols_decide_a_nonzero():
+    # n unit and t in (0, pi): cos(t/2) > 0 there and n1 = 1 at n = e1, so cos(t/2) n1 is
+    # not zero (common practice); the witness on the sphere carries over into the range
+    s = Session()
+    ok(s, "scalar t in (0, pi)\nvector n unit")
+    result = ok(s, "check cos(t/2) n1 == 0")[-1]
+    assert result.outcome == "fails"
+    # the rotor about n by t is classified, with its angle and axis read off
+    report = ok(s, "show rotor(n, t)")[-1].report
+    assert report.item("kind").value == "rotor"
+    assert s.format(report.item("angle").value) == "t"
+
+
+@pytest.mark.parametrize("setup, text", [
+    # the ranged symbol is in the equation: t^2 = 1 with t in (0, pi) leaves t = 1 only,
+    # where t - 1 vanishes; the witness t = -1 lies outside the range
+    ("scalar t in (0, pi)", "check t - 1 == 0 given t^2 = 1"),
+    # a range relating two symbols is not a box
+    ("scalar a, b\nvector n unit\nassume a + b > 0", "check (a + b) n1 == 0"),
+])
+def test_a_witness_that_may_leave_the_ranges_stays_undecided(setup, text):
+    s = Session()
+    ok(s, setup)
+    assert ok(s, text)[-1].outcome == "undecided"

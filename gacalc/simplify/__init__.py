@@ -121,7 +121,7 @@ def decision_of_zero(coef: Coef, conditions=None, budget: Budget | None = None) 
     if equations:
         # a nonzero remainder only says "not in the ideal"; decide looks for a real witness
         verdict = _conditions_reducer(equations).decide(c, budget)
-        if verdict is False and ranges:
+        if verdict is False and ranges and not _ranges_apart(c, equations, ranges):
             # the witness point may lie outside the ranges
             return undecided("a point where L - R is not zero satisfies the equations, "
                              "but it may lie outside the declared ranges")
@@ -138,6 +138,28 @@ def decision_of_zero(coef: Coef, conditions=None, budget: Budget | None = None) 
     den = c.parts()[1]
     return _decide_by_points(Coef(c.num).to_expr(), budget, ranges,
                              denominator=None if den is None else Coef(den).to_expr())
+
+
+def _ranges_apart(c: Coef, equations, ranges) -> bool:
+    """Whether a real witness on the equations (some values of every symbol) carries
+    over into the ranges: the ranged symbols appear in no equation, each range is an
+    interval with an inside (and none relates several symbols), and c depends on them only
+    through the symbols themselves and their cos and sin.  Then, with the other symbols
+    held at the witness, c is a nonzero analytic function of the ranged ones, which cannot
+    vanish on the whole open box: it is nonzero at some point inside the ranges too.
+    (n unit and t in (0, pi): cos(t/2) is not zero.)"""
+    from gacalc.algebra.coefficients import generators_of
+
+    if any(len(fact.free_symbols) > 1 for fact in ranges.facts):
+        return False                      # a + b > 0: not a box
+    ranged = set(ranges.box)
+    for lo, hi, _, _ in ranges.box.values():
+        if (hi - lo).is_positive is not True:
+            return False
+    if any(e.free_symbols & ranged for e in equations):
+        return False
+    return all(info.kind in ("symbol", "cos", "sin")
+               for info in generators_of(c) if info.expr.free_symbols & ranged)
 
 
 def _decide_by_points(expr, budget, ranges=None, equations=(), denominator=None):
