@@ -184,6 +184,10 @@ def test_equations_and_ranges_on_separate_symbols_decide_a_nonzero():
     ok(s, "scalar t in (0, pi)\nvector n unit")
     result = ok(s, "check cos(t/2) n1 == 0")[-1]
     assert result.outcome == "fails"
+    # half-angle identities are still proved, and their near misses still fail
+    # (cos t = 2 cos^2(t/2) - 1, common practice)
+    assert ok(s, "check (cos(t) - 2 cos(t/2)^2 + 1) n1 == 0")[-1].outcome == "holds"
+    assert ok(s, "check (cos(t) - 3 cos(t/2)^2 + 1) n1 == 0")[-1].outcome == "fails"
     # the rotor about n by t is classified, with its angle and axis read off
     report = ok(s, "show rotor(n, t)")[-1].report
     assert report.item("kind").value == "rotor"

@@ -144,9 +144,10 @@ def _ranges_apart(c: Coef, equations, ranges) -> bool:
     """Whether a real witness on the equations (some values of every symbol) carries
     over into the ranges: the ranged symbols appear in no equation, each range is an
     interval with an inside (and none relates several symbols), and c depends on them only
-    through the symbols themselves and their cos and sin.  Then, with the other symbols
-    held at the witness, c is a nonzero analytic function of the ranged ones, which cannot
-    vanish on the whole open box: it is nonzero at some point inside the ranges too.
+    through the symbols themselves and cos and sin of polynomials in them.  Then, with the
+    other symbols held at the witness, c is a nonzero function of the ranged ones that is
+    analytic everywhere, so it cannot vanish on the whole open box (identity theorem): it
+    is nonzero at some point inside the ranges too.
     (n unit and t in (0, pi): cos(t/2) is not zero.)"""
     from gacalc.algebra.coefficients import generators_of
 
@@ -158,8 +159,17 @@ def _ranges_apart(c: Coef, equations, ranges) -> bool:
             return False
     if any(e.free_symbols & ranged for e in equations):
         return False
-    return all(info.kind in ("symbol", "cos", "sin")
-               for info in generators_of(c) if info.expr.free_symbols & ranged)
+    if has_opaque_generators(c):
+        return False                      # cos(t) beside cos(t/2): not independent
+    for info in generators_of(c):
+        if not info.expr.free_symbols & ranged:
+            continue
+        if info.kind == "symbol":
+            continue
+        if info.kind in ("cos", "sin") and info.trig[1].is_polynomial():
+            continue              # cos(q u) with u a polynomial: analytic everywhere
+        return False              # abs(t), sqrt(t), cos(atan2(...)): maybe not analytic
+    return True
 
 
 def _decide_by_points(expr, budget, ranges=None, equations=(), denominator=None):
