@@ -370,8 +370,11 @@ class Multivector:
         p = self * self.conjugate()
         return p._c[0], p._c[PSEUDOSCALAR]
 
-    def inverse_with_condition(self):
+    def inverse_with_condition(self, as_value: bool = False):
         """(A^-1, condition): condition is a sympy Expr that must be nonzero, or None.
+        ``as_value``: the condition as a scalar Multivector instead, when it is a
+        polynomial (a reader that goes on computing with it need not write a long
+        polynomial out as an Expr and read it back).
 
         A^-1 = Ā (a - b I) / (a^2 + b^2), where A Ā = a + b I.
         """
@@ -390,6 +393,8 @@ class Multivector:
             raise NotInvertibleError(message, cond)
         numer = self.conjugate() * Multivector.from_coefs([a, None, None, None, None, None, None, -b])
         inv = numer.scale(d.inverse())
+        if as_value and d.expr is None and not d.is_constant():
+            return inv, Multivector.from_coefs([_square_free_coef(d)] + [None] * 7)
         condition = None if d.is_constant() else _condition_text_expr(d)
         if condition is not None and condition.is_number and (verdict is False or condition != 0):
             condition = None  # a number proved nonzero: no condition to state ("1 != 0")
@@ -559,12 +564,18 @@ def _condition_text_expr(d: Coef):
             return expr
     if d.is_constant():
         return d.to_expr()
-    reg, num, _ = d._own_parts()
+    return _square_free_coef(d).to_expr()
+
+
+def _square_free_coef(d: Coef) -> Coef:
+    """The square-free part of a polynomial coefficient's numerator, by flint, as a Coef
+    (what _condition_text_expr writes out)."""
+    _, num, _ = d._own_parts()
     _, factors = num.factor_squarefree()
     part = None
     for factor, _ in factors:
         part = factor if part is None else part * factor
-    return poly_to_expr(part, reg)
+    return Coef(part)
 
 
 def _index_of(key) -> int:

@@ -199,10 +199,15 @@ def _text(e) -> str:
 
 
 def _condition(e, s: _Simplifier):
-    """The condition 'e != 0' reduced under the session's conditions; None when it always holds."""
+    """The condition 'e != 0' reduced under the session's conditions; None when it always
+    holds.  ``e`` is a sympy Expr or a scalar Multivector (reduced as it is, and only the
+    result written out as an Expr: a long polynomial is not converted out and back)."""
     if e is None:
         return None
-    e = s.scalar(e)
+    if isinstance(e, Multivector):
+        e = s.mv(e)[0]
+    else:
+        e = s.scalar(e)
     if e.is_number and e != 0:
         return None
     return e
@@ -444,7 +449,7 @@ class _Builder:
                      "not invertible: a^2 + b^2 = 0 where X*conjugate(X) = a + b*I")
             return
         try:
-            inv, cond = x.inverse_with_condition()
+            inv, cond = x.inverse_with_condition(as_value=True)
         except NotInvertibleError as exc:
             self.add(MEASURES, "inverse", "none", str(exc))
             return
