@@ -22,16 +22,13 @@ from .evaluator import is_multivector, relevant_conditions
 
 
 def _as_rotor(value):
-    """A quaternion's even multivector (Hamilton's convention, as from_quaternion), or the
-    value unchanged; and whether it was a quaternion."""
+    """(the multivector its kind compares as a rotation, whether it was a quaternion);
+    a kind without one (a matrix, a list) gives the value back, for the refusal."""
     from gacalc.values import kind_of
 
     kind = kind_of(value)
-    if kind is not None and kind.name == "quaternion":
-        from gacalc.algebra.representations import from_quaternion
-
-        return from_quaternion(value), True
-    return value, False
+    found = None if kind is None else kind.as_rotation(value)
+    return found if found is not None else (value, False)
 
 
 def _require_rotor(executor, value, side: str, node, exprs, quaternion: bool = False):

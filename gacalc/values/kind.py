@@ -85,6 +85,11 @@ class ValueKind:
         """(value, complete) under side conditions (sympy Exprs equal to zero)."""
         return value, True
 
+    def as_rotation(self, value):
+        """(the even multivector that turns vectors as the value does, whether the value
+        is a quaternion) for ``check ... as rotation``; None: this kind is no rotation."""
+        return None
+
     def differences(self, left, right):
         """left - right as a list of multivectors that are all zero when the two are
         equal; None when the values cannot be compared."""

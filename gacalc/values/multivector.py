@@ -139,6 +139,9 @@ class MultivectorKind(ValueKind):
         outcome = simplify(value, conditions, budget)
         return outcome.value, outcome.complete
 
+    def as_rotation(self, value):
+        return value, False
+
     def differences(self, left, right):
         if not self.matches(right):
             return None

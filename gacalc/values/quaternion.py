@@ -32,6 +32,11 @@ class QuaternionKind(ValueKind):
 
         return sympy.Quaternion(*(N(part, digits) for part in self.scalars(value)))
 
+    def as_rotation(self, value):
+        from gacalc.algebra.representations import from_quaternion
+
+        return from_quaternion(value), True      # q and -q as R and -R
+
     def add(self, left, right, sign, span):
         return left + right if sign > 0 else left - right
 
