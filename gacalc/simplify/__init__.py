@@ -200,7 +200,7 @@ def is_zero(mv: Multivector, conditions=(), budget=None):
 
 def decide(mv: Multivector, conditions=(), budget=None) -> Decision:
     """is_zero with its grounds (gacalc.simplify.decision.Decision)."""
-    if all(c is None for c in mv.coefs()):
+    if mv.is_zero():
         return ZERO         # exactly zero (a check that holds): no alarm to arm
     budget = _as_budget(budget)
     try:
